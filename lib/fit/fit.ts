@@ -1,0 +1,351 @@
+/**
+ * `fit`: one regularized least-squares model on all rows, solved exactly.
+ *
+ * Objective (augmented-error convention, sum-of-squares units):
+ *   minimize Σᵢ (yᵢ − b − zᵢᵀw)² + λ Σ_q γ_q (s_q w_q)²
+ * with s_q the training SD of design column q (divisor n) when `standardize` is on (default),
+ * else 1. Per observation this is E_in + (λ/N)·Σ γ_q w*_q². The intercept b is never penalized.
+ * The constraint form minimizes E_in subject to Σ γ_q (s_q w_q)² ≤ C.
+ *
+ * @module
+ */
+import { CurbfitError } from "../errors/error.ts";
+import { deepFreeze } from "../common/freeze.ts";
+import type { Design, LearnedTerm, Term } from "../design/types.ts";
+import { buildDesign, learnTerms } from "../design/mod.ts";
+import type { Table } from "../table/types.ts";
+import { type ColumnArrays, type RowObjects, toTable } from "../table/mod.ts";
+import { solveRefined } from "../solve/exact.ts";
+import {
+  degreesOfFreedom,
+  lambdaForBudget,
+  spectralForm,
+  triangularFactor,
+} from "../solve/spectral.ts";
+import { jacobiSvd } from "../numeric/svd.ts";
+import { DDAccumulator } from "../numeric/dd.ts";
+import { penaltyWeights, ridge, type RidgePenalty } from "./penalty.ts";
+import { columnScales } from "./scale.ts";
+
+/** In-memory data accepted wherever a Table is: row objects or named column arrays. */
+export type TableInput = RowObjects | ColumnArrays;
+
+/** What to fit. */
+export interface FitSpec {
+  /** Name of the numeric column to predict. */
+  readonly target: string;
+  /** Terms of the model (the intercept is separate; see `intercept`). */
+  readonly terms: readonly Term[];
+  /** Penalty; default `ridge()` (γ_q = 1). */
+  readonly penalty?: RidgePenalty;
+  /** Penalty strength λ ≥ 0 in sum-of-squares units; default 0 (ordinary least squares). */
+  readonly lambda?: number;
+  /** Instead of λ: the budget C > 0 of the constraint Σ γ_q w*_q² ≤ C. */
+  readonly budget?: number;
+  /** Standardize design columns with training statistics (default true). */
+  readonly standardize?: boolean;
+  /** Fit an unpenalized intercept (default true). */
+  readonly intercept?: boolean;
+}
+
+/** Predictions for new rows, with rows outside the training domain counted per term. */
+export interface Prediction {
+  readonly values: Float64Array;
+  /** Terms that met rows outside what they learned (e.g. a Legendre domain), with counts. */
+  readonly outside: readonly { readonly label: string; readonly count: number }[];
+}
+
+/** Numbers describing one fitted model; every array is frozen. */
+export interface FitSummary {
+  readonly target: string;
+  readonly n: number;
+  /** Design column names, in coefficient order. */
+  readonly names: readonly string[];
+  /** Polynomial order of each design column. */
+  readonly orders: readonly number[];
+  readonly penalty: RidgePenalty;
+  /** γ_q per design column. */
+  readonly gamma: readonly number[];
+  readonly lambda: number;
+  /** Budget C(λ) = Σ γ_q (s_q w_q)² met by the solution. */
+  readonly budget: number;
+  /** Effective degrees of freedom Σ σ²/(σ²+λ) (intercept not counted). */
+  readonly df: number;
+  /** Intercept and coefficients on the original scale of the data. */
+  readonly intercept: number;
+  readonly coefficients: readonly number[];
+  /** On the standardized scale: w*_q = s_q w_q, intercept = prediction at the column means. */
+  readonly standardized: { readonly intercept: number; readonly coefficients: readonly number[] };
+  readonly standardize: boolean;
+  readonly hasIntercept: boolean;
+  /** Column means and SDs (divisor n) of the training rows; SD 1 and mean 0 when not standardizing. */
+  readonly means: readonly number[];
+  readonly sds: readonly number[];
+  /** Σ residual² / n on the training rows. */
+  readonly trainMse: number;
+  /** √(RSS / (n − intercept − df)): the OLS residual SD at λ = 0. */
+  readonly residualSd: number;
+  /** 2-norm condition number of the (centered) standardized design. */
+  readonly condition: number;
+  /** Iterative-refinement steps of the exact solver. */
+  readonly refinementSteps: number;
+}
+
+/** Largest condition number accepted at λ = 0 before the design is called rank deficient. */
+const RANK_LIMIT = 1e15;
+
+/**
+ * An immutable fitted model.
+ *
+ * @example
+ * ```ts
+ * import { fit, legendre } from "../../mod.ts";
+ * const data = { x: [0, 1, 2, 3, 4, 5], y: [1.1, 2.9, 5.2, 6.8, 9.1, 11] };
+ * const m = fit(data, { target: "y", terms: [legendre("x", 1)], lambda: 0.5 });
+ * console.log(m.summary.coefficients, m.predict({ x: [2.5] }).values);
+ * ```
+ */
+export class Fit {
+  /** The fitted numbers. */
+  readonly summary: FitSummary;
+  /** The terms with their learned parameters. */
+  readonly terms: readonly LearnedTerm[];
+
+  constructor(summary: FitSummary, terms: readonly LearnedTerm[]) {
+    this.summary = summary;
+    this.terms = terms;
+    Object.freeze(this);
+  }
+
+  /** Predicts the target for new rows (any input `toTable` accepts); counts extrapolation. */
+  predict(data: Table | TableInput): Prediction {
+    const table = toTable(data);
+    const design = buildDesign(this.terms, table);
+    const { n, p, hi, lo } = design.block;
+    const w = this.summary.coefficients;
+    const values = new Float64Array(n);
+    const acc = new DDAccumulator();
+    for (let i = 0; i < n; i++) {
+      acc.reset();
+      acc.add(this.summary.intercept);
+      for (let q = 0; q < p; q++) acc.addDDProduct(hi[i * p + q], lo[i * p + q], w[q]);
+      values[i] = acc.value();
+    }
+    return { values, outside: design.outside.filter((o) => o.count > 0) };
+  }
+}
+
+/**
+ * Fits one model on all rows of `data` with the exact solver (Householder QR plus
+ * double-double iterative refinement), at a given λ or for a given budget C.
+ *
+ * @example
+ * ```ts
+ * import { fit, legendre, ridge } from "../../mod.ts";
+ * const x = Array.from({ length: 20 }, (_, i) => i / 19);
+ * const y = x.map((v) => Math.sin(3 * v));
+ * const m = fit({ x, y }, { target: "y", terms: [legendre("x", 8)], penalty: ridge(), budget: 1 });
+ * console.log(m.summary.lambda, m.summary.budget); // λ found for C = 1, and C = 1
+ * ```
+ */
+export function fit(data: Table | TableInput, spec: FitSpec): Fit {
+  const table = toTable(data);
+  const { y, terms, design } = prepare(table, spec);
+  return fitPrepared(spec, terms, design, y);
+}
+
+/** Learned terms, design and target of a spec on a table (all rows). */
+export function prepare(table: Table, spec: FitSpec) {
+  checkSpec(spec);
+  const y = targetValues(table, spec);
+  const terms = learnTerms(spec.terms, table);
+  const design = buildDesign(terms, table);
+  return { y, terms, design };
+}
+
+/** The exact fit on an already built design. */
+export function fitPrepared(
+  spec: FitSpec,
+  terms: readonly LearnedTerm[],
+  design: Design,
+  y: Float64Array,
+): Fit {
+  const standardize = spec.standardize ?? true;
+  const intercept = spec.intercept ?? true;
+  const penalty = spec.penalty ?? ridge();
+  const { n, p } = design.block;
+  const scales = standardize ? columnScales(design.block) : undefined;
+  const sds = scales ? scales.sds : new Float64Array(p).fill(1);
+  if (scales) checkNotConstant(design, sds, scales.means);
+  const gamma = penaltyWeights(penalty, design.orders);
+  const tri = triangularFactor(n, p, design.block.hi, y, intercept);
+  const condition = conditionNumber(tri.r, sds);
+  const sf = spectralForm(tri, sds, gamma);
+  const lambda = spec.budget !== undefined ? lambdaForBudget(sf, spec.budget) : spec.lambda ?? 0;
+  if (lambda === 0) checkRank(design, tri.r, sds, condition, n, intercept);
+  const penaltyRoot = Float64Array.from(gamma, (g, q) => Math.sqrt(lambda * g) * sds[q]);
+  const sol = solveRefined({ ...design.block, y, intercept, penaltyRoot });
+  const w = Array.from(sol.w);
+  const wStd = w.map((v, q) => v * sds[q]);
+  const means = scales ? Array.from(scales.means) : new Array<number>(p).fill(0);
+  const df = degreesOfFreedom(sf, lambda);
+  const residualDf = n - (intercept ? 1 : 0) - df;
+  const summary: FitSummary = deepFreeze({
+    target: spec.target,
+    n,
+    names: [...design.names],
+    orders: [...design.orders],
+    penalty,
+    gamma: Array.from(gamma),
+    lambda,
+    budget: wStd.reduce((s, v, q) => s + gamma[q] * v * v, 0),
+    df,
+    intercept: sol.intercept,
+    coefficients: w,
+    standardized: {
+      intercept: sol.intercept + w.reduce((s, v, q) => s + v * means[q], 0),
+      coefficients: wStd,
+    },
+    standardize,
+    hasIntercept: intercept,
+    means,
+    sds: Array.from(sds),
+    trainMse: sol.rss / n,
+    residualSd: residualDf > 0 ? Math.sqrt(sol.rss / residualDf) : NaN,
+    condition,
+    refinementSteps: sol.iterations,
+  });
+  return new Fit(summary, terms);
+}
+
+function checkSpec(spec: FitSpec): void {
+  if (typeof spec?.target !== "string") {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      "no target column was named",
+      'Pass the column to predict, e.g. { target: "y", terms: [...] }',
+      { option: "target" },
+    );
+  }
+  if (!Array.isArray(spec.terms) || spec.terms.length === 0) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      "no terms were given",
+      'Pass at least one term, e.g. terms: [legendre("x", 5)]',
+      { option: "terms" },
+    );
+  }
+  if (spec.lambda !== undefined && spec.budget !== undefined) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      "both lambda and budget were given",
+      "Give either lambda (penalty strength) or budget (constraint size), not both",
+      { option: "budget" },
+    );
+  }
+  if (spec.lambda !== undefined && !(Number.isFinite(spec.lambda) && spec.lambda >= 0)) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `lambda is ${spec.lambda}, but it must be a finite number >= 0`,
+      "Use 0 for no penalty or a positive penalty strength",
+      { option: "lambda" },
+    );
+  }
+  if (spec.budget !== undefined && !(Number.isFinite(spec.budget) && spec.budget > 0)) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `budget is ${spec.budget}, but it must be a finite number > 0`,
+      "Give the size C of the constraint Σ γ_q w_q² ≤ C",
+      { option: "budget" },
+    );
+  }
+}
+
+function targetValues(table: Table, spec: FitSpec): Float64Array {
+  const col = table.columns.get(spec.target);
+  if (col === undefined) {
+    throw new CurbfitError(
+      "UNKNOWN_COLUMN",
+      `the target column ${JSON.stringify(spec.target)} is not in the data`,
+      `Choose one of: ${table.names.join(", ")}`,
+      { source: table.source, option: "target" },
+    );
+  }
+  if (col.kind !== "number") {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `the target column ${JSON.stringify(spec.target)} holds text, not numbers`,
+      "Choose a numeric column as the target",
+      { source: table.source, option: "target" },
+    );
+  }
+  for (const term of spec.terms) {
+    if (term.inputs.includes(spec.target)) {
+      throw new CurbfitError(
+        "BAD_OPTION",
+        `the target ${JSON.stringify(spec.target)} is also an input of ${term.label}`,
+        "Remove that term or choose another target",
+        { option: "terms" },
+      );
+    }
+  }
+  const v = col.values;
+  if (v.every((x) => x === v[0])) {
+    throw new CurbfitError(
+      "CONSTANT_TARGET",
+      `the target column ${JSON.stringify(spec.target)} has the same value (${v[0]}) in all ${v.length} rows`,
+      "There is nothing to model; check that the right column and rows were loaded",
+      { source: table.source, column: spec.target },
+    );
+  }
+  return Float64Array.from(v);
+}
+
+function checkNotConstant(design: Design, sds: Float64Array, means: Float64Array): void {
+  sds.forEach((sd, q) => {
+    if (!(sd > 1e-14 * Math.abs(means[q]))) {
+      throw new CurbfitError(
+        "CONSTANT_COLUMN",
+        `design column ${design.names[q]} is constant over the ${design.n} rows, so it cannot be standardized`,
+        "Remove the term that makes it, or check the data",
+        { option: "terms" },
+      );
+    }
+  });
+}
+
+/** σ_max/σ_min of R·diag(1/s). */
+function conditionNumber(r: readonly Float64Array[], sds: Float64Array): number {
+  const { s } = jacobiSvd(r.map((col, q) => col.map((x) => x / sds[q])));
+  return s.length === 0 ? 1 : s[0] / s[s.length - 1];
+}
+
+function checkRank(
+  design: Design,
+  r: readonly Float64Array[],
+  sds: Float64Array,
+  condition: number,
+  n: number,
+  intercept: boolean,
+): void {
+  const coefficients = design.p + (intercept ? 1 : 0);
+  if (n < coefficients) {
+    throw new CurbfitError(
+      "TOO_FEW_ROWS",
+      `${n} rows cannot determine ${coefficients} coefficients without a penalty`,
+      "Use fewer terms, more rows, or a penalty (lambda > 0)",
+      { option: "lambda" },
+    );
+  }
+  if (condition <= RANK_LIMIT) return;
+  const { v } = jacobiSvd(r.map((col, q) => col.map((x) => x / sds[q])));
+  const weakest = v[v.length - 1];
+  const involved = design.names.filter((_, q) => Math.abs(weakest[q]) > 0.1);
+  throw new CurbfitError(
+    "RANK_DEFICIENT",
+    `the design is rank deficient (condition number ${condition.toPrecision(3)}): ` +
+      `columns ${involved.join(", ")} are (nearly) linearly dependent`,
+    "Remove one of them, lower a degree, or use a penalty (lambda > 0)",
+    { option: "terms" },
+  );
+}

@@ -1,0 +1,289 @@
+/**
+ * `sweep`: cross-validated choice of λ for one model.
+ *
+ * Rows are read once: the design is built with terms learned on all rows, and each fold's rows
+ * are summarized (count, means, centered co-moments). For fold f the training summary is the
+ * whole minus fold f, mapped into the basis of terms learned on the training rows only
+ * (Legendre domains, standardization — no leakage); one eigendecomposition per training fold
+ * then serves every λ at O(p²) each, and the held-out error comes from the held-out summary.
+ * The chosen λ is refit on all rows with the exact solver.
+ *
+ * Reported per λ: per-fold validation MSE, their mean, and the standard error
+ * SE = SD/√K (SD over the K·R fold errors with divisor K·R − 1; with R repeats this treats the
+ * R·K errors as one K-fold's spread — common practice); all-rows training MSE, df(λ), C(λ);
+ * closed-form leave-one-out and GCV when computed.
+ *
+ * @module
+ */
+import { CurbfitError } from "../errors/error.ts";
+import { deepFreeze } from "../common/freeze.ts";
+import type { Design, LearnedTerm } from "../design/types.ts";
+import { buildDesign, learnTerms } from "../design/mod.ts";
+import type { Table } from "../table/types.ts";
+import { toTable } from "../table/mod.ts";
+import { type FoldPlan, foldRows } from "../folds/mod.ts";
+import { type Fit, fitPrepared, type FitSpec, prepare, type TableInput } from "../fit/fit.ts";
+import { penaltyWeights, ridge } from "../fit/penalty.ts";
+import { bucketMoments, type Moments, removeMoments } from "./moments.ts";
+import { basisChange, changeMoments } from "./basis.ts";
+import { decompose, heldOutErrors, solutionAt, type Spectrum } from "./spectrum.ts";
+import { type LambdaGrid, lambdaGrid } from "./grid.ts";
+import { choose, type Choice, type SelectionRule } from "./select.ts";
+import { type FoldRequest, planFolds } from "./folds.ts";
+import { generalizedCrossValidation, leaveOneOutErrors } from "./loo.ts";
+
+/** A progress report: `done` of `total` steps of `stage`. */
+export interface Progress {
+  readonly stage: "summaries" | "folds" | "refit";
+  readonly done: number;
+  readonly total: number;
+  /** Candidate name, during `compare`. */
+  readonly candidate?: string;
+}
+
+/** Receives progress reports; must return quickly. */
+export type ProgressListener = (progress: Progress) => void;
+
+/** Largest row count for which closed-form leave-one-out is computed by default. */
+export const CLOSED_FORM_DEFAULT_ROWS = 100_000;
+
+/** What to sweep: a fit spec without λ, plus the grid, folds and rule. */
+export interface SweepSpec extends Omit<FitSpec, "lambda" | "budget"> {
+  /** λ values, or bounds/count of an automatic log-spaced grid (default 100 points). */
+  readonly lambdas?: LambdaGrid;
+  /** A fold plan, or how to make one (default 10-fold, seed 1). */
+  readonly folds?: FoldPlan | FoldRequest;
+  /** How to pick λ from the curve (default "min"). */
+  readonly rule?: SelectionRule;
+  /**
+   * Closed-form leave-one-out error (O(n p (p + L))): true, false, or "auto" (default: when
+   * n ≤ 100 000). GCV is always computed.
+   */
+  readonly closedForm?: boolean | "auto";
+  readonly progress?: ProgressListener;
+}
+
+/** One grid point of the curve. */
+export interface CurvePoint {
+  readonly lambda: number;
+  /** Mean validation MSE over all folds (and repeats). */
+  readonly cvMean: number;
+  /** SD of the fold errors / √K. */
+  readonly cvSe: number;
+  /** Validation MSE of each fold, repeat-major (repeat 0 folds 0..K−1, then repeat 1, …). */
+  readonly foldMse: readonly number[];
+  /** Training MSE of the all-rows fit. */
+  readonly trainMse: number;
+  /** Mean training MSE over the folds' training sets. */
+  readonly foldTrainMse: number;
+  readonly df: number;
+  readonly budget: number;
+  readonly gcv: number;
+  /** Closed-form leave-one-out MSE, or null when not computed. */
+  readonly loo: number | null;
+  /** Standardized coefficients s_q·w_q of the all-rows fit (the shrinkage path). */
+  readonly path: readonly number[];
+}
+
+/** Everything a sweep found. Frozen. */
+export interface SweepResult {
+  readonly target: string;
+  readonly n: number;
+  readonly names: readonly string[];
+  readonly orders: readonly number[];
+  readonly gamma: readonly number[];
+  readonly standardize: boolean;
+  readonly intercept: boolean;
+  readonly folds: FoldPlan;
+  readonly curve: readonly CurvePoint[];
+  /** The grid point with the smallest mean CV error. */
+  readonly minimum: Choice;
+  /** The grid point the rule chose. */
+  readonly chosen: Choice;
+  /** Plain-language notes, e.g. the minimum sitting on an edge of the grid. */
+  readonly notes: readonly string[];
+  /** The chosen model refit on all rows with the exact solver. */
+  readonly fit: Fit;
+}
+
+/**
+ * Sweeps λ over a grid with seeded cross-validation and refits the chosen model.
+ *
+ * @example
+ * ```ts
+ * import { legendre, sweep } from "../../mod.ts";
+ * const x = Array.from({ length: 40 }, (_, i) => i / 39);
+ * const y = x.map((v, i) => Math.cos(4 * v) + 0.1 * Math.sin(17 * i));
+ * const s = sweep({ x, y }, { target: "y", terms: [legendre("x", 12)], folds: { k: 5, seed: 3 }, rule: "one-se" });
+ * console.log(s.chosen.lambda, s.fit.summary.df);
+ * ```
+ */
+export function sweep(data: Table | TableInput, spec: SweepSpec): SweepResult {
+  const table = toTable(data);
+  const plan = planFolds(table, spec.folds);
+  const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
+  return sweepPrepared(table, spec, plan, terms, design, y);
+}
+
+/** The sweep on an already prepared design and plan (shared with `compare`). */
+export function sweepPrepared(
+  table: Table,
+  spec: SweepSpec,
+  plan: FoldPlan,
+  terms: readonly LearnedTerm[],
+  design: Design,
+  y: Float64Array,
+): SweepResult {
+  const options = {
+    gamma: penaltyWeights(spec.penalty ?? ridge(), design.orders),
+    standardize: spec.standardize ?? true,
+    intercept: spec.intercept ?? true,
+  };
+  const report = spec.progress ?? (() => {});
+  const { n, p, hi } = design.block;
+  const all = bucketMoments(hi, p, y, new Int32Array(n), 1)[0];
+  const full = decompose(all, options);
+  checkScales(full, design.names, "all rows");
+  const lambdas = lambdaGrid(spec.lambdas, full.e);
+  const total = plan.repeats * plan.k;
+  const foldMse: Float64Array[] = [];
+  const foldTrain: Float64Array[] = [];
+  for (let r = 0; r < plan.repeats; r++) {
+    report({ stage: "summaries", done: r, total: plan.repeats });
+    const buckets = bucketMoments(hi, p, y, bucketOf(plan.assignment[r], plan.k), plan.k + 1);
+    for (let f = 0; f < plan.k; f++) {
+      const { train, validation, where } = foldSummaries(table, spec, terms, all, buckets, plan, r, f);
+      const sp = decompose(train, options);
+      checkScales(sp, design.names, where);
+      foldMse.push(heldOutErrors(sp, validation, lambdas));
+      foldTrain.push(Float64Array.from(lambdas, (l) => solutionAt(sp, l).rss / train.count));
+      report({ stage: "folds", done: r * plan.k + f + 1, total });
+    }
+  }
+  const closed = wantClosedForm(spec.closedForm, n);
+  const loo = closed ? leaveOneOutErrors(full, hi, y, lambdas) : null;
+  const gcv = generalizedCrossValidation(full, lambdas);
+  const curve = lambdas.map((lambda, l) => {
+    const errs = foldMse.map((e) => e[l]);
+    const sol = solutionAt(full, lambda);
+    return {
+      lambda,
+      cvMean: mean(errs),
+      cvSe: standardError(errs, plan.k),
+      foldMse: errs,
+      trainMse: sol.rss / n,
+      foldTrainMse: mean(foldTrain.map((e) => e[l])),
+      df: sol.df,
+      budget: sol.budget,
+      gcv: gcv[l],
+      loo: loo ? loo[l] : null,
+      path: Array.from(sol.w, (w, q) => w * full.scales[q]),
+    };
+  });
+  const means = curve.map((c) => c.cvMean);
+  const ses = curve.map((c) => c.cvSe);
+  const minimum = choose("min", lambdas, means, ses);
+  const chosen = choose(spec.rule ?? "min", lambdas, means, ses);
+  report({ stage: "refit", done: 0, total: 1 });
+  const model = fitPrepared({ ...spec, lambda: chosen.lambda }, terms, design, y);
+  report({ stage: "refit", done: 1, total: 1 });
+  return deepFreeze({
+    target: spec.target,
+    n,
+    names: [...design.names],
+    orders: [...design.orders],
+    gamma: Array.from(options.gamma),
+    standardize: options.standardize,
+    intercept: options.intercept,
+    folds: plan,
+    curve,
+    minimum,
+    chosen,
+    notes: edgeNotes(minimum, lambdas.length, spec.lambdas),
+    fit: model,
+  });
+}
+
+/** Fold index per row, with never-validated rows (−1) in the extra bucket k. */
+function bucketOf(assignment: Int32Array, k: number): Int32Array {
+  return assignment.map((f) => (f < 0 ? k : f));
+}
+
+/** Training and held-out summaries of fold f, in the basis of terms learned on its training rows. */
+function foldSummaries(
+  table: Table,
+  spec: SweepSpec,
+  terms: readonly LearnedTerm[],
+  all: Moments,
+  buckets: readonly Moments[],
+  plan: FoldPlan,
+  r: number,
+  f: number,
+): { train: Moments; validation: Moments; where: string } {
+  const where = `training rows of fold ${f + 1}` + (plan.repeats > 1 ? ` (repeat ${r + 1})` : "");
+  const rows = foldRows(plan, r, f);
+  const foldTerms = learnTerms(spec.terms, table, rows.training);
+  const change = basisChange(terms, foldTerms);
+  if (change !== undefined) {
+    return {
+      train: changeMoments(removeMoments(all, buckets[f]), change),
+      validation: changeMoments(buckets[f], change),
+      where,
+    };
+  }
+  const rebuilt = buildDesign(foldTerms, table);
+  const side = new Int32Array(table.nRows);
+  side.fill(1);
+  for (const i of rows.training) side[i] = 0;
+  const target = (table.columns.get(spec.target) as { values: Float64Array }).values;
+  const [train, validation] = bucketMoments(rebuilt.block.hi, rebuilt.p, target, side, 2);
+  return { train, validation, where };
+}
+
+function checkScales(sp: Spectrum, names: readonly string[], where: string): void {
+  sp.scales.forEach((s, q) => {
+    if (!(s > 0) || !Number.isFinite(s)) {
+      throw new CurbfitError(
+        "CONSTANT_COLUMN",
+        `design column ${names[q]} is constant over the ${where}, so it cannot be standardized`,
+        "Use grouped or more folds so every level and value range appears in training, or drop the term",
+        { option: "folds" },
+      );
+    }
+  });
+}
+
+function wantClosedForm(option: boolean | "auto" | undefined, n: number): boolean {
+  if (option === undefined || option === "auto") return n <= CLOSED_FORM_DEFAULT_ROWS;
+  return option;
+}
+
+function edgeNotes(minimum: Choice, count: number, grid: LambdaGrid | undefined): string[] {
+  if (count < 2) return [];
+  const explicit = Array.isArray(grid);
+  if (minimum.index === 0) {
+    return [
+      `The smallest CV error is at the smallest λ on the grid (${minimum.lambda.toPrecision(3)}); ` +
+      (explicit ? "add smaller values" : "lower lambdas.min") + " to see whether it keeps falling.",
+    ];
+  }
+  if (minimum.index === count - 1) {
+    return [
+      `The smallest CV error is at the largest λ on the grid (${minimum.lambda.toPrecision(3)}); ` +
+      (explicit ? "add larger values" : "raise lambdas.max") + " to see whether it keeps falling.",
+    ];
+  }
+  return [];
+}
+
+function mean(v: readonly number[]): number {
+  return v.reduce((s, x) => s + x, 0) / v.length;
+}
+
+/** SD (divisor m − 1) of the m fold errors, over √K. NaN for a single fold. */
+function standardError(v: readonly number[], k: number): number {
+  if (v.length < 2) return NaN;
+  const m = mean(v);
+  const ss = v.reduce((s, x) => s + (x - m) ** 2, 0);
+  return Math.sqrt(ss / (v.length - 1)) / Math.sqrt(k);
+}

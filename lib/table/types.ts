@@ -1,0 +1,47 @@
+/**
+ * The table: typed columns with provenance. Produced by the loaders in this folder, read by the
+ * design. Tables are immutable; loaders copy caller data.
+ *
+ * @module
+ */
+
+/** A numeric column: float64 values, never NaN or ±Infinity once inside a table. */
+export interface NumericColumn {
+  readonly kind: "number";
+  readonly name: string;
+  readonly values: Float64Array;
+}
+
+/** A text column stored as categories: `levels` sorted (first level is the reference). */
+export interface CategoryColumn {
+  readonly kind: "category";
+  readonly name: string;
+  readonly levels: readonly string[];
+  /** Index into `levels` for each row. */
+  readonly codes: Int32Array;
+}
+
+/** One column of a table. */
+export type Column = NumericColumn | CategoryColumn;
+
+/** What happened to missing values on the way in. */
+export interface MissingReport {
+  /** "error" (default): any missing value is an error. "drop": rows with one are removed. */
+  readonly policy: "error" | "drop";
+  /** Source line numbers (1-based; for rows/columns input: 1-based row numbers) of dropped rows. */
+  readonly droppedLines: readonly number[];
+}
+
+/** A loaded table. */
+export interface Table {
+  readonly nRows: number;
+  /** Column names in source order. */
+  readonly names: readonly string[];
+  /** Columns by name, in source order. */
+  readonly columns: ReadonlyMap<string, Column>;
+  /** Where the data came from: a file path, "CSV text", "stream", "rows" or "columns". */
+  readonly source: string;
+  /** Source line (or 1-based row number) of each kept row, for messages that point at data. */
+  readonly lineOfRow: Int32Array;
+  readonly missing: MissingReport;
+}

@@ -1,0 +1,77 @@
+/**
+ * Escaping for the three text forms a result is shown in: HTML, Markdown and plain text.
+ * Whatever a user puts in a column name or a title must show as the same characters it was,
+ * never as markup, a link, a table break or a terminal control sequence.
+ *
+ * @module
+ */
+
+/** C0 and C1 control characters, DEL included. */
+const CONTROL = /[\u0000-\u001f\u007f-\u009f]/g;
+/** The same set without tab, line feed and carriage return (whitespace HTML keeps as text). */
+const CONTROL_BUT_WHITESPACE = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f]/g;
+
+const NAMED_ESCAPES: Readonly<Record<string, string>> = { "\n": "\\n", "\r": "\\r", "\t": "\\t" };
+
+function visibleControl(ch: string): string {
+  return NAMED_ESCAPES[ch] ??
+    `\\u${ch.charCodeAt(0).toString(16).padStart(4, "0")}`;
+}
+
+/**
+ * Replaces every control character (ANSI escape, bell, NUL, line break, tab, …) with a visible
+ * escape such as `\u001b` or `\n`, so the text can never move the cursor, colour a terminal or
+ * break a one-line layout. Other characters are kept as they are.
+ *
+ * @example
+ * ```ts
+ * import { showControls } from "./escape.ts";
+ * showControls("red\u001b[31m\nx"); // "red\\u001b[31m\\nx"
+ * ```
+ */
+export function showControls(text: string): string {
+  return text.replace(CONTROL, visibleControl);
+}
+
+const HTML_ENTITIES: Readonly<Record<string, string>> = {
+  "&": "&amp;",
+  "<": "&lt;",
+  ">": "&gt;",
+  '"': "&quot;",
+  "'": "&#39;",
+};
+
+/**
+ * Escapes text for HTML element content and quoted attribute values: `& < > " '` become
+ * entities and control characters other than tab/line breaks become visible escapes.
+ *
+ * @example
+ * ```ts
+ * import { escapeHtml } from "./escape.ts";
+ * escapeHtml(`<script>alert("x")</script> & co`);
+ * // "&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; co"
+ * ```
+ */
+export function escapeHtml(text: string): string {
+  return text.replace(CONTROL_BUT_WHITESPACE, visibleControl).replace(
+    /[&<>"']/g,
+    (ch) => HTML_ENTITIES[ch],
+  );
+}
+
+/**
+ * Escapes text for inline Markdown (a paragraph or a table cell). Every ASCII punctuation
+ * character that CommonMark lets a backslash escape is escaped, so emphasis (`*`, `_`), code
+ * (backticks), links (`[`, `]`, `(`, `)`), raw HTML (`<`), entities (`&`) and table cells (`|`)
+ * all show literally. Control characters, line breaks included, become visible escapes first,
+ * so the result is always one line.
+ *
+ * @example
+ * ```ts
+ * import { escapeMarkdown } from "./escape.ts";
+ * escapeMarkdown("a|b *c* [d](e) <f>"); // "a\\|b \\*c\\* \\[d\\]\\(e\\) \\<f\\>"
+ * ```
+ */
+export function escapeMarkdown(text: string): string {
+  return showControls(text).replace(/[!-/:-@[-`{-~]/g, (ch) => `\\${ch}`);
+}

@@ -1,0 +1,78 @@
+/**
+ * curbfit: regularized linear models for notebooks, with λ chosen by seeded cross-validation.
+ *
+ * Objective (augmented-error convention, sum-of-squares units):
+ *   minimize Σᵢ (yᵢ − b − zᵢᵀw)² + λ Σ_q γ_q w*_q²
+ * where w*_q is the coefficient on the standardized scale; the intercept b is never penalized.
+ *
+ * @example
+ * ```ts
+ * import { legendre, sweep } from "./mod.ts";
+ * const x = Array.from({ length: 50 }, (_, i) => i / 49);
+ * const y = x.map((v, i) => Math.exp(-2 * v) + 0.05 * Math.sin(13 * i));
+ * const result = sweep({ x, y }, { target: "y", terms: [legendre("x", 10)], folds: { k: 5, seed: 42 } });
+ * console.log(result.chosen.lambda);
+ * ```
+ *
+ * @module
+ */
+export { CurbfitError, type ErrorCode, type ErrorPlace } from "./lib/errors/error.ts";
+export {
+  type CellValue,
+  type ColumnArrays,
+  isTable,
+  type LoadOptions,
+  parseCsv,
+  readCsv,
+  readCsvStream,
+  type RowObjects,
+  type Table,
+  tableFromColumns,
+  tableFromRows,
+  toTable,
+} from "./lib/table/mod.ts";
+export {
+  column,
+  indicators,
+  legendre,
+  type LegendreOptions,
+  power,
+  product,
+  type Term,
+} from "./lib/design/mod.ts";
+export { ridge, type RidgePenalty, type RidgeWeights } from "./lib/fit/penalty.ts";
+export {
+  fit,
+  Fit,
+  type FitSpec,
+  type FitSummary,
+  type Prediction,
+  type TableInput,
+} from "./lib/fit/fit.ts";
+export {
+  type CurvePoint,
+  type Progress,
+  type ProgressListener,
+  sweep,
+  type SweepResult,
+  type SweepSpec,
+} from "./lib/sweep/sweep.ts";
+export {
+  type Candidate,
+  compare,
+  type CandidateOutcome,
+  type CompareOptions,
+  type ComparisonResult,
+  type PairedDifference,
+} from "./lib/sweep/compare.ts";
+export type { SelectionRule } from "./lib/sweep/select.ts";
+export type { LambdaGrid } from "./lib/sweep/grid.ts";
+export type { FoldRequest } from "./lib/sweep/folds.ts";
+export {
+  explicitPlan,
+  type FoldPlan,
+  groupedKFoldPlan,
+  holdoutPlan,
+  kFoldPlan,
+  leaveOneOutPlan,
+} from "./lib/folds/mod.ts";
