@@ -1,0 +1,2 @@
+export * from "../mod.ts";
+export { foldRows as foldRowsOf } from "../lib/folds/mod.ts";
