@@ -42,8 +42,8 @@ export {
 } from "./lib/design/mod.ts";
 export { ridge, type RidgePenalty, type RidgeWeights } from "./lib/fit/penalty.ts";
 export {
-  fit,
   Fit,
+  fit,
   type FitSpec,
   type FitSummary,
   type Prediction,
@@ -59,8 +59,8 @@ export {
 } from "./lib/sweep/sweep.ts";
 export {
   type Candidate,
-  compare,
   type CandidateOutcome,
+  compare,
   type CompareOptions,
   type ComparisonResult,
   type PairedDifference,

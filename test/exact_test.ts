@@ -90,7 +90,9 @@ Deno.test("budget → λ → budget round trip to 1e-10; a loose budget gives λ
 Deno.test("coefficients on both scales agree: w*_q = s_q w_q and the intercept at the means", () => {
   const cols = syntheticColumns(4, 50);
   const s = fit(cols, { target: "y", terms: [power("x", 3), column("z1")], lambda: 2 }).summary;
-  s.coefficients.forEach((w, q) => assert.ok(relErr(s.standardized.coefficients[q], w * s.sds[q]) < 1e-15));
+  s.coefficients.forEach((w, q) =>
+    assert.ok(relErr(s.standardized.coefficients[q], w * s.sds[q]) < 1e-15)
+  );
   const atMeans = s.intercept + s.coefficients.reduce((a, w, q) => a + w * s.means[q], 0);
   assert.ok(relErr(s.standardized.intercept, atMeans) < 1e-14);
 });
@@ -98,7 +100,9 @@ Deno.test("coefficients on both scales agree: w*_q = s_q w_q and the intercept a
 Deno.test("the fit object is immutable and predicts; extrapolation is counted, not hidden", () => {
   const cols = syntheticColumns(6, 40);
   const m = fit(cols, { target: "y", terms: [legendre("x", 4)], lambda: 0.1 });
-  assert.ok(Object.isFrozen(m) && Object.isFrozen(m.summary) && Object.isFrozen(m.summary.coefficients));
+  assert.ok(
+    Object.isFrozen(m) && Object.isFrozen(m.summary) && Object.isFrozen(m.summary.coefficients),
+  );
   assert.throws(() => ((m.summary.coefficients as number[])[0] = 1));
   const p = m.predict({ x: [0, 1, 10, -9] });
   assert.equal(p.values.length, 4);
@@ -118,18 +122,52 @@ Deno.test("bad fit requests name the option or column at fault", () => {
   const cols = syntheticColumns(7, 30);
   const snapshot = structuredClone(cols);
   const terms = [legendre("x", 3)];
-  expectCode("UNKNOWN_COLUMN", () => fit(cols, { target: "sales", terms }), /target column "sales".*Choose one of: x, z1, z2, y/);
-  expectCode("CONSTANT_TARGET", () => fit({ x: [1, 2, 3], y: [5, 5, 5] }, { target: "y", terms }), /same value \(5\) in all 3 rows/);
-  expectCode("BAD_OPTION", () => fit(cols, { target: "y", terms, lambda: -1 }), /option lambda: lambda is -1/);
-  expectCode("BAD_OPTION", () => fit(cols, { target: "y", terms, lambda: 1, budget: 2 }), /both lambda and budget/);
+  expectCode(
+    "UNKNOWN_COLUMN",
+    () => fit(cols, { target: "sales", terms }),
+    /target column "sales".*Choose one of: x, z1, z2, y/,
+  );
+  expectCode(
+    "CONSTANT_TARGET",
+    () => fit({ x: [1, 2, 3], y: [5, 5, 5] }, { target: "y", terms }),
+    /same value \(5\) in all 3 rows/,
+  );
+  expectCode(
+    "BAD_OPTION",
+    () => fit(cols, { target: "y", terms, lambda: -1 }),
+    /option lambda: lambda is -1/,
+  );
+  expectCode(
+    "BAD_OPTION",
+    () => fit(cols, { target: "y", terms, lambda: 1, budget: 2 }),
+    /both lambda and budget/,
+  );
   expectCode("BAD_OPTION", () => fit(cols, { target: "y", terms, budget: 0 }), /option budget/);
   expectCode("BAD_OPTION", () => fit(cols, { target: "y", terms: [] }), /option terms/);
-  expectCode("BAD_OPTION", () => fit(cols, { target: "x", terms }), /also an input of legendre\(x, 3\)/);
-  expectCode("RANK_DEFICIENT", () =>
-    fit({ a: [1, 2, 3, 4, 5], b: [2, 4, 6, 8, 10], y: [1, 3, 2, 5, 4] }, {
-      target: "y", terms: [column("a"), column("b")], standardize: false,
-    }), /columns a, b are \(nearly\) linearly dependent/);
-  expectCode("TOO_FEW_ROWS", () => fit({ x: [1, 2, 3], y: [1, 4, 2] }, { target: "y", terms: [power("x", 3)] }), /3 rows cannot determine 4 coefficients/);
-  expectCode("BAD_OPTION", () => fit(cols, { target: "y", terms, penalty: ridge({ weights: [1, 2] }) }), /2 weights were given for 3 design columns/);
+  expectCode(
+    "BAD_OPTION",
+    () => fit(cols, { target: "x", terms }),
+    /also an input of legendre\(x, 3\)/,
+  );
+  expectCode(
+    "RANK_DEFICIENT",
+    () =>
+      fit({ a: [1, 2, 3, 4, 5], b: [2, 4, 6, 8, 10], y: [1, 3, 2, 5, 4] }, {
+        target: "y",
+        terms: [column("a"), column("b")],
+        standardize: false,
+      }),
+    /columns a, b are \(nearly\) linearly dependent/,
+  );
+  expectCode(
+    "TOO_FEW_ROWS",
+    () => fit({ x: [1, 2, 3], y: [1, 4, 2] }, { target: "y", terms: [power("x", 3)] }),
+    /3 rows cannot determine 4 coefficients/,
+  );
+  expectCode(
+    "BAD_OPTION",
+    () => fit(cols, { target: "y", terms, penalty: ridge({ weights: [1, 2] }) }),
+    /2 weights were given for 3 design columns/,
+  );
   assert.deepEqual(cols, snapshot, "caller data unchanged");
 });

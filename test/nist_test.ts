@@ -32,7 +32,10 @@ for (const name of Object.keys(certified)) {
     assert.equal(estimates.length, c.coefficients.length);
     c.coefficients.forEach((cc: { name: string; estimate: string }, k: number) => {
       const score = lre(estimates[k], Number(cc.estimate));
-      assert.ok(score >= 11, `${name} ${cc.name}: LRE ${score.toFixed(2)} (${estimates[k]} vs ${cc.estimate})`);
+      assert.ok(
+        score >= 11,
+        `${name} ${cc.name}: LRE ${score.toFixed(2)} (${estimates[k]} vs ${cc.estimate})`,
+      );
     });
     const sdScore = lre(s.residualSd, Number(c.residualSD));
     assert.ok(sdScore >= 10, `${name} residual SD: LRE ${sdScore.toFixed(2)}`);

@@ -6,7 +6,16 @@
  */
 import assert from "node:assert/strict";
 import fc from "fast-check";
-import { column, fit, foldRowsOf, kFoldPlan, legendre, ridge, sweep, tableFromColumns } from "./sweep_imports.ts";
+import {
+  column,
+  fit,
+  foldRowsOf,
+  kFoldPlan,
+  legendre,
+  ridge,
+  sweep,
+  tableFromColumns,
+} from "./sweep_imports.ts";
 import { relErr, subsetColumns, syntheticColumns } from "./helpers.ts";
 
 const LAMBDAS = [0.01, 0.3, 5, 100];
@@ -32,12 +41,32 @@ function bruteForce(
 }
 
 const cases = [
-  { name: "plain columns, standardized", terms: () => [column("x"), column("z1"), column("z2")], opts: {} },
-  { name: "plain columns, raw scale", terms: () => [column("x"), column("z1"), column("z2")], opts: { standardize: false } },
-  { name: "Legendre degree 6 + column, standardized", terms: () => [legendre("x", 6), column("z1")], opts: {} },
-  { name: "Legendre degree 6, raw scale", terms: () => [legendre("x", 6), column("z2")], opts: { standardize: false } },
+  {
+    name: "plain columns, standardized",
+    terms: () => [column("x"), column("z1"), column("z2")],
+    opts: {},
+  },
+  {
+    name: "plain columns, raw scale",
+    terms: () => [column("x"), column("z1"), column("z2")],
+    opts: { standardize: false },
+  },
+  {
+    name: "Legendre degree 6 + column, standardized",
+    terms: () => [legendre("x", 6), column("z1")],
+    opts: {},
+  },
+  {
+    name: "Legendre degree 6, raw scale",
+    terms: () => [legendre("x", 6), column("z2")],
+    opts: { standardize: false },
+  },
   { name: "no intercept", terms: () => [column("x"), column("z1")], opts: { intercept: false } },
-  { name: "rising order weights", terms: () => [legendre("x", 5)], opts: { penalty: ridge({ weights: "rising", exponent: 2 }) } },
+  {
+    name: "rising order weights",
+    terms: () => [legendre("x", 5)],
+    opts: { penalty: ridge({ weights: "rising", exponent: 2 }) },
+  },
 ];
 
 for (const c of cases) {
@@ -54,7 +83,10 @@ for (const c of cases) {
     const brute = bruteForce(cols, c.terms(), plan, c.opts);
     s.curve.forEach((point, l) => {
       point.foldMse.forEach((mse, f) => {
-        assert.ok(relErr(mse, brute[l][f]) < 1e-9, `λ=${LAMBDAS[l]} fold ${f}: ${mse} vs ${brute[l][f]}`);
+        assert.ok(
+          relErr(mse, brute[l][f]) < 1e-9,
+          `λ=${LAMBDAS[l]} fold ${f}: ${mse} vs ${brute[l][f]}`,
+        );
       });
     });
   });
@@ -65,13 +97,23 @@ Deno.test("closed-form leave-one-out equals brute-force leave-one-out refits", (
   const cols = syntheticColumns(5, 30, 1);
   const terms = () => [legendre("x", 4, { domain: [-3, 5] }), column("z1")];
   const s = sweep(tableFromColumns(cols), {
-    target: "y", terms: terms(), lambdas: [0.1, 2], standardize: false, folds: { k: 3, seed: 1 }, closedForm: true,
+    target: "y",
+    terms: terms(),
+    lambdas: [0.1, 2],
+    standardize: false,
+    folds: { k: 3, seed: 1 },
+    closedForm: true,
   });
   [0.1, 2].forEach((lambda, l) => {
     let sum = 0;
     for (let i = 0; i < 30; i++) {
       const rest = Array.from({ length: 30 }, (_, j) => j).filter((j) => j !== i);
-      const m = fit(subsetColumns(cols, rest), { target: "y", terms: terms(), lambda, standardize: false });
+      const m = fit(subsetColumns(cols, rest), {
+        target: "y",
+        terms: terms(),
+        lambda,
+        standardize: false,
+      });
       const e = cols.y[i] - m.predict(subsetColumns(cols, [i])).values[0];
       sum += e * e;
     }
@@ -82,7 +124,12 @@ Deno.test("closed-form leave-one-out equals brute-force leave-one-out refits", (
 Deno.test("GCV equals (RSS/n)/(1 − (df+1)/n)² of the exact fit (Golub, Heath & Wahba 1979)", () => {
   const cols = syntheticColumns(8, 50);
   const terms = [legendre("x", 5), column("z1")];
-  const s = sweep(tableFromColumns(cols), { target: "y", terms, lambdas: [0.5, 3], folds: { k: 5, seed: 2 } });
+  const s = sweep(tableFromColumns(cols), {
+    target: "y",
+    terms,
+    lambdas: [0.5, 3],
+    folds: { k: 5, seed: 2 },
+  });
   s.curve.forEach((pt) => {
     const m = fit(tableFromColumns(cols), { target: "y", terms, lambda: pt.lambda });
     const gcv = m.summary.trainMse / (1 - (m.summary.df + 1) / 50) ** 2;
@@ -96,7 +143,12 @@ Deno.test("GCV equals (RSS/n)/(1 − (df+1)/n)² of the exact fit (Golub, Heath 
 Deno.test("the chosen model is the exact refit on all rows at the chosen λ", () => {
   const cols = syntheticColumns(3, 60);
   const terms = [legendre("x", 8)];
-  const s = sweep(tableFromColumns(cols), { target: "y", terms, folds: { k: 6, seed: 4 }, rule: "one-se" });
+  const s = sweep(tableFromColumns(cols), {
+    target: "y",
+    terms,
+    folds: { k: 6, seed: 4 },
+    rule: "one-se",
+  });
   const direct = fit(tableFromColumns(cols), { target: "y", terms, lambda: s.chosen.lambda });
   assert.deepEqual(s.fit.summary, direct.summary);
   assert.ok(s.chosen.lambda >= s.minimum.lambda);
@@ -104,7 +156,11 @@ Deno.test("the chosen model is the exact refit on all rows at the chosen λ", ()
 
 Deno.test("automatic grid spans df ≈ p down to df < 1", () => {
   const cols = syntheticColumns(21, 100);
-  const s = sweep(tableFromColumns(cols), { target: "y", terms: [legendre("x", 10), column("z1")], folds: { k: 5, seed: 1 } });
+  const s = sweep(tableFromColumns(cols), {
+    target: "y",
+    terms: [legendre("x", 10), column("z1")],
+    folds: { k: 5, seed: 1 },
+  });
   assert.equal(s.curve.length, 100);
   assert.ok(s.curve[0].df > 0.99 * 11, `df at smallest λ ${s.curve[0].df}`);
   assert.ok(s.curve[99].df < 1, `df at largest λ ${s.curve[99].df}`);
@@ -113,7 +169,10 @@ Deno.test("automatic grid spans df ≈ p down to df < 1", () => {
 Deno.test("a minimum on the edge of an explicit grid is said plainly", () => {
   const cols = syntheticColumns(2, 60);
   const s = sweep(tableFromColumns(cols), {
-    target: "y", terms: [column("x"), column("z1"), column("z2")], lambdas: [1e3, 1e4, 1e5], folds: { k: 5, seed: 1 },
+    target: "y",
+    terms: [column("x"), column("z1"), column("z2")],
+    lambdas: [1e3, 1e4, 1e5],
+    folds: { k: 5, seed: 1 },
   });
   assert.equal(s.minimum.index, 0);
   assert.match(s.notes[0], /smallest λ on the grid/);
@@ -121,7 +180,11 @@ Deno.test("a minimum on the edge of an explicit grid is said plainly", () => {
 
 Deno.test("determinism: two sweeps give identical numbers", () => {
   const cols = syntheticColumns(44, 70);
-  const spec = { target: "y", terms: [legendre("x", 7), column("z2")], folds: { k: 7, seed: 123, repeats: 2 } };
+  const spec = {
+    target: "y",
+    terms: [legendre("x", 7), column("z2")],
+    folds: { k: 7, seed: 123, repeats: 2 },
+  };
   const a = sweep(tableFromColumns(cols), spec);
   const b = sweep(tableFromColumns(cols), spec);
   assert.deepEqual(a.curve, b.curve);
@@ -130,20 +193,28 @@ Deno.test("determinism: two sweeps give identical numbers", () => {
 
 Deno.test("properties (fast-check, seeded): training error rises, df and C fall with λ; one-SE ≥ min", () => {
   fc.assert(
-    fc.property(fc.integer({ min: 1, max: 10_000 }), fc.integer({ min: 25, max: 90 }), fc.integer({ min: 1, max: 9 }), (seed, n, degree) => {
-      const cols = syntheticColumns(seed, n, 1);
-      const terms = [legendre("x", degree), column("z1")];
-      const base = { target: "y", terms, lambdas: { count: 25 }, folds: { k: 5, seed } };
-      const s = sweep(tableFromColumns(cols), { ...base, rule: "one-se" as const });
-      for (let l = 1; l < s.curve.length; l++) {
-        const a = s.curve[l - 1], b = s.curve[l];
-        assert.ok(b.trainMse >= a.trainMse * (1 - 1e-12), "train MSE non-decreasing");
-        assert.ok(b.foldTrainMse >= a.foldTrainMse * (1 - 1e-12), "mean fold train MSE non-decreasing");
-        assert.ok(b.df <= a.df * (1 + 1e-12), "df non-increasing");
-        assert.ok(b.budget <= a.budget * (1 + 1e-12), "C non-increasing");
-      }
-      assert.ok(s.chosen.lambda >= s.minimum.lambda);
-    }),
+    fc.property(
+      fc.integer({ min: 1, max: 10_000 }),
+      fc.integer({ min: 25, max: 90 }),
+      fc.integer({ min: 1, max: 9 }),
+      (seed, n, degree) => {
+        const cols = syntheticColumns(seed, n, 1);
+        const terms = [legendre("x", degree), column("z1")];
+        const base = { target: "y", terms, lambdas: { count: 25 }, folds: { k: 5, seed } };
+        const s = sweep(tableFromColumns(cols), { ...base, rule: "one-se" as const });
+        for (let l = 1; l < s.curve.length; l++) {
+          const a = s.curve[l - 1], b = s.curve[l];
+          assert.ok(b.trainMse >= a.trainMse * (1 - 1e-12), "train MSE non-decreasing");
+          assert.ok(
+            b.foldTrainMse >= a.foldTrainMse * (1 - 1e-12),
+            "mean fold train MSE non-decreasing",
+          );
+          assert.ok(b.df <= a.df * (1 + 1e-12), "df non-increasing");
+          assert.ok(b.budget <= a.budget * (1 + 1e-12), "C non-increasing");
+        }
+        assert.ok(s.chosen.lambda >= s.minimum.lambda);
+      },
+    ),
     { seed: 20261201, numRuns: 40 },
   );
 });

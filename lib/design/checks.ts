@@ -29,8 +29,7 @@ export function checkDegree(degree: unknown, label: string): void {
   }
   throw new CurbfitError(
     "BAD_OPTION",
-    `${label}: option degree is ${show(degree)}, ` +
-      `but it must be a whole number from 1 to ${MAX_DEGREE}`,
+    `${label}: degree must be a whole number from 1 to ${MAX_DEGREE}, not ${show(degree)}`,
     "Pass the highest polynomial order wanted, e.g. 5",
     { option: "degree" },
   );
@@ -49,7 +48,7 @@ export function checkName(name: unknown, fn: string): asserts name is string {
   if (typeof name === "string" && name.length > 0) return;
   throw new CurbfitError(
     "BAD_OPTION",
-    `${fn}(): option column is ${show(name)}, but it must be a column name (a non-empty string)`,
+    `${fn}(): column must be a column name (a non-empty string), not ${show(name)}`,
     `Pass the column's name as text, e.g. ${fn}("x")`,
     { option: "column" },
   );
@@ -73,7 +72,7 @@ export function checkDomain(domain: unknown, label: string): readonly [number, n
   }
   throw new CurbfitError(
     "BAD_OPTION",
-    `${label}: option domain is ${show(domain)}, but it must be [lo, hi] with finite lo < hi`,
+    `${label}: domain must be [lo, hi] with finite lo < hi, not ${show(domain)}`,
     "Pass the interval the column's values are mapped from, e.g. [0, 100], or omit it to learn it",
     { option: "domain" },
   );
@@ -122,7 +121,7 @@ export function findColumn(table: Table, name: string, label: string): Column {
  *   nRows: 1, names: ["x"], columns: new Map([["x", { kind: "number" as const, name: "x", values: Float64Array.of(1) }]]),
  *   source: "rows", lineOfRow: Int32Array.of(1), missing: { policy: "error" as const, droppedLines: [] },
  * };
- * console.log(numericColumn(table, "x", "column(x)").values); // Float64Array [ 1 ]
+ * console.log(numericColumn(table, "x", "column(x)").values); // Float64Array(1) [ 1 ]
  * ```
  */
 export function numericColumn(table: Table, name: string, label: string): NumericColumn {
@@ -264,25 +263,25 @@ export function valueRange(
 }
 
 /**
- * Refuses a value that is not a term (e.g. a column name passed where a term belongs).
- * `what` names the place, e.g. "product(): option left" or "terms[2]".
+ * Refuses a value that is not a term (e.g. a column name passed where a term belongs), naming
+ * the function and option, e.g. `checkTerm(side, "product()", "left")`.
  *
  * @example
  * ```ts
  * import { checkTerm } from "./checks.ts";
  * import { column } from "./power.ts";
- * checkTerm(column("x"), "terms[0]"); // ok
+ * checkTerm(column("x"), "learnTerms()", "terms[0]"); // ok
  * ```
  */
-export function checkTerm(value: unknown, what: string): asserts value is Term {
+export function checkTerm(value: unknown, fn: string, option: string): asserts value is Term {
   const ok = typeof value === "object" && value !== null && "learn" in value &&
     typeof value.learn === "function" && "label" in value && typeof value.label === "string";
   if (ok) return;
   throw new CurbfitError(
     "BAD_OPTION",
-    `${what} is ${show(value)}, but it must be a term`,
+    `${fn}: ${option} must be a term, not ${show(value)}`,
     'Build terms with column(), power(), legendre(), indicators() or product(), e.g. column("dose")',
-    { option: what.replace(/^.*option /, "") },
+    { option },
   );
 }
 

@@ -46,7 +46,7 @@ export function learnTerms(
       { option: "terms" },
     );
   }
-  terms.forEach((term, i) => checkTerm(term, `terms[${i}]`));
+  terms.forEach((term, i) => checkTerm(term, "learnTerms()", `terms[${i}]`));
   const learned = terms.map((term) => term.learn(table, rows));
   checkUniqueNames(learned);
   return learned;
@@ -135,7 +135,8 @@ function checkFinite(
     const r = rows === undefined ? i : rows[i];
     throw new CurbfitError(
       "NOT_FINITE",
-      `design column ${JSON.stringify(names[k % block.p])} overflows (value ${block.hi[k]})`,
+      `design column ${JSON.stringify(names[k % block.p])} overflows double precision ` +
+        "(beyond ±1.8e308)",
       "Use legendre() on a learned domain, a lower degree, or rescale the column",
       { source: table.source, line: table.lineOfRow[r] },
     );

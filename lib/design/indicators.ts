@@ -33,7 +33,7 @@ import type { LearnedTerm, Term } from "./types.ts";
  * const learned = indicators("region").learn(table);
  * const block = { n: 3, p: 2, hi: new Float64Array(6), lo: new Float64Array(6) };
  * learned.apply(table, undefined, block, 0);
- * console.log(learned.names, block.hi); // [ "region=north", "region=west" ] Float64Array [ 0, 0, 1, 0, 0, 1 ]
+ * console.log(learned.names, block.hi); // [ "region=north", "region=west" ] Float64Array(6) [ 0, 0, 1, 0, 0, 1 ]
  * ```
  */
 export function indicators(name: string): Term {

@@ -65,7 +65,7 @@ export function legendre(column: string, degree: number, options: LegendreOption
     learn(table: Table, rows?: Int32Array): LearnedTerm {
       const values = numericColumn(table, column, label).values;
       const n = rowCount(table, rows, label);
-      const domain = given ?? learnDomain(values, rows, n, column, label);
+      const domain = given ?? learnDomain(values, rows, n, table.source, column, label);
       return learnedLegendre(term, column, degree, domain);
     },
   };
@@ -77,6 +77,7 @@ function learnDomain(
   values: Float64Array,
   rows: Int32Array | undefined,
   n: number,
+  source: string,
   column: string,
   label: string,
 ): readonly [number, number] {
@@ -89,7 +90,7 @@ function learnDomain(
         "rows, so its domain has zero width"
       : `${label}: column ${JSON.stringify(column)} spans [${lo}, ${hi}], too wide to map`,
     "Drop the term, or pass { domain: [lo, hi] } to fix the interval yourself",
-    { column },
+    { source, column },
   );
 }
 
@@ -152,7 +153,7 @@ function writeLegendre(t: number, degree: number, out: Float64Array, start: numb
  * @example
  * ```ts
  * import { legendreValues } from "./legendre.ts";
- * console.log(legendreValues(0.5, 3)); // Float64Array [ 1, 0.5, -0.125, -0.4375 ]
+ * console.log(legendreValues(0.5, 3)); // Float64Array(4) [ 1, 0.5, -0.125, -0.4375 ]
  * ```
  */
 export function legendreValues(t: number, degree: number): Float64Array {
@@ -189,9 +190,9 @@ export function legendreValues(t: number, degree: number): Float64Array {
  * ```ts
  * import { legendreRebase } from "./legendre.ts";
  * // Same domain: the identity.
- * console.log(legendreRebase([0, 1], [0, 1], 1)); // Float64Array [ 1, 0, 0, 1 ]
+ * console.log(legendreRebase([0, 1], [0, 1], 1)); // Float64Array(4) [ 1, 0, 0, 1 ]
  * // [0, 2] → [0, 1]: P_1 on [0, 1] is 2x − 1 = 1 + P_1 on [0, 2] (which is x − 1).
- * console.log(legendreRebase([0, 2], [0, 1], 1)); // Float64Array [ 1, 1, 0, 2 ]
+ * console.log(legendreRebase([0, 2], [0, 1], 1)); // Float64Array(4) [ 1, 1, 0, 2 ]
  * ```
  */
 export function legendreRebase(

@@ -39,7 +39,7 @@ import type { DesignBlock, Json, LearnedTerm, Term, TermKind } from "./types.ts"
  * const learned = power("x", 2).learn(table);
  * const block = { n: 2, p: 2, hi: new Float64Array(4), lo: new Float64Array(4) };
  * learned.apply(table, undefined, block, 0);
- * console.log(learned.names, block.hi[1], block.lo[1]); // [ "x", "x^2" ] 0.010000000000000002 -2.0816681711721685e-19
+ * console.log(learned.names, block.hi[1], block.lo[1]); // [ "x", "x^2" ] 0.010000000000000002 -8.326672684688674e-19
  * ```
  */
 export function power(column: string, degree: number): Term {

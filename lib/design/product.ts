@@ -32,12 +32,12 @@ import type { DesignBlock, LearnedTerm, Term } from "./types.ts";
  * const learned = product(column("dose"), indicators("site")).learn(table);
  * const block = { n: 2, p: 1, hi: new Float64Array(2), lo: new Float64Array(2) };
  * learned.apply(table, undefined, block, 0);
- * console.log(learned.names, block.hi); // [ "dose*site=b" ] Float64Array [ 0, 3 ]
+ * console.log(learned.names, block.hi); // [ "dose*site=b" ] Float64Array(2) [ 0, 3 ]
  * ```
  */
 export function product(left: Term, right: Term): Term {
-  checkTerm(left, "product(): option left");
-  checkTerm(right, "product(): option right");
+  checkTerm(left, "product()", "left");
+  checkTerm(right, "product()", "right");
   const label = `product(${left.label}, ${right.label})`;
   const term: Term = {
     kind: "product",

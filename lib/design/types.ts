@@ -75,7 +75,7 @@ export interface Term {
  * const learned = power("x", 2).learn(table);
  * const block = { n: 3, p: 2, hi: new Float64Array(6), lo: new Float64Array(6) };
  * learned.apply(table, undefined, block, 0);
- * console.log(learned.names, block.hi); // [ "x", "x^2" ] Float64Array [ 1, 1, 2, 4, 3, 9 ]
+ * console.log(learned.names, block.hi); // [ "x", "x^2" ] Float64Array(6) [ 1, 1, 2, 4, 3, 9 ]
  * ```
  */
 export interface LearnedTerm {

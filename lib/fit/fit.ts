@@ -293,7 +293,9 @@ function targetValues(table: Table, spec: FitSpec): Float64Array {
   if (v.every((x) => x === v[0])) {
     throw new CurbfitError(
       "CONSTANT_TARGET",
-      `the target column ${JSON.stringify(spec.target)} has the same value (${v[0]}) in all ${v.length} rows`,
+      `the target column ${JSON.stringify(spec.target)} has the same value (${
+        v[0]
+      }) in all ${v.length} rows`,
       "There is nothing to model; check that the right column and rows were loaded",
       { source: table.source, column: spec.target },
     );
@@ -306,7 +308,9 @@ function checkNotConstant(design: Design, sds: Float64Array, means: Float64Array
     if (!(sd > 1e-14 * Math.abs(means[q]))) {
       throw new CurbfitError(
         "CONSTANT_COLUMN",
-        `design column ${design.names[q]} is constant over the ${design.n} rows, so it cannot be standardized`,
+        `design column ${
+          design.names[q]
+        } is constant over the ${design.n} rows, so it cannot be standardized`,
         "Remove the term that makes it, or check the data",
         { option: "terms" },
       );

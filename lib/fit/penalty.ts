@@ -41,7 +41,7 @@ export function ridge(options: { weights?: RidgeWeights; exponent?: number } = {
     throw new CurbfitError(
       "BAD_OPTION",
       `the exponent is ${exponent}, but it must be a finite number >= 0`,
-      "Pass for example { weights: \"rising\", exponent: 2 }",
+      'Pass for example { weights: "rising", exponent: 2 }',
       { option: "penalty.exponent" },
     );
   }

@@ -14,7 +14,7 @@ import type { Table } from "../table/types.ts";
 import { toTable } from "../table/mod.ts";
 import type { FoldPlan } from "../folds/mod.ts";
 import { prepare, type TableInput } from "../fit/fit.ts";
-import { type ProgressListener, type SweepResult, type SweepSpec, sweepPrepared } from "./sweep.ts";
+import { type ProgressListener, sweepPrepared, type SweepResult, type SweepSpec } from "./sweep.ts";
 import { type FoldRequest, planFolds } from "./folds.ts";
 import type { SelectionRule } from "./select.ts";
 
@@ -88,7 +88,7 @@ export function compare(
   checkCandidates(candidates);
   const table = toTable(data);
   const plan = planFolds(table, options.folds);
-  const sweeps = candidates.map((c, i) => {
+  const sweeps = candidates.map((c) => {
     const spec: SweepSpec = {
       ...c,
       target: options.target,
@@ -96,7 +96,12 @@ export function compare(
       progress: options.progress &&
         ((p) => options.progress!({ ...p, candidate: c.name, done: p.done, total: p.total })),
     };
-    options.progress?.({ stage: "summaries", done: i, total: candidates.length, candidate: c.name });
+    options.progress?.({
+      stage: "summaries",
+      done: i,
+      total: candidates.length,
+      candidate: c.name,
+    });
     const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
     return sweepPrepared(table, spec, plan, terms, design, y);
   });
@@ -116,7 +121,9 @@ export function compare(
     cvMean: o.point.cvMean,
     cvSe: o.point.cvSe,
     foldMse: o.point.foldMse,
-    versusBest: i === bestIndex ? null : pairedDifference(o.point.foldMse, best.point.foldMse, plan.k),
+    versusBest: i === bestIndex
+      ? null
+      : pairedDifference(o.point.foldMse, best.point.foldMse, plan.k),
   }));
   return deepFreeze({
     target: options.target,
@@ -156,7 +163,7 @@ function checkCandidates(candidates: readonly Candidate[]): void {
     throw new CurbfitError(
       "BAD_OPTION",
       "compare needs at least two candidates",
-      "Pass a list like [{ name: \"a\", terms: [...] }, { name: \"b\", terms: [...] }]",
+      'Pass a list like [{ name: "a", terms: [...] }, { name: "b", terms: [...] }]',
       { option: "candidates" },
     );
   }

@@ -70,7 +70,12 @@ export function planFolds(table: Table, request: FoldPlan | FoldRequest | undefi
   }
   const k = r.k ?? Math.min(DEFAULT_FOLDS.k, n);
   if (r.groups !== undefined) {
-    return groupedKFoldPlan(n, { k, seed, repeats: r.repeats, groups: groupCodes(table, r.groups) });
+    return groupedKFoldPlan(n, {
+      k,
+      seed,
+      repeats: r.repeats,
+      groups: groupCodes(table, r.groups),
+    });
   }
   return kFoldPlan(n, { k, seed, repeats: r.repeats });
 }

@@ -62,8 +62,10 @@ export function lambdaGrid(spec: LambdaGrid | undefined, e: Float64Array): numbe
     );
   }
   const step = Math.log(top / bottom) / (count - 1);
-  return Array.from({ length: count }, (_, i) =>
-    i === count - 1 ? top : bottom * Math.exp(step * i));
+  return Array.from(
+    { length: count },
+    (_, i) => i === count - 1 ? top : bottom * Math.exp(step * i),
+  );
 }
 
 function explicitGrid(values: readonly number[]): number[] {

@@ -103,7 +103,10 @@ export function removeMoments(whole: Moments, part: Moments): Moments {
   const d = whole.d;
   const n = whole.count - part.count;
   if (part.count === 0) return whole;
-  const mean = Float64Array.from(whole.mean, (mw, j) => (whole.count * mw - part.count * part.mean[j]) / n);
+  const mean = Float64Array.from(
+    whole.mean,
+    (mw, j) => (whole.count * mw - part.count * part.mean[j]) / n,
+  );
   const delta = Float64Array.from(part.mean, (mp, j) => mp - mean[j]);
   const f = (n * part.count) / whole.count;
   const cross = new Float64Array(d * d);

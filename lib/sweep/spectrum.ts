@@ -56,8 +56,10 @@ export interface SpectrumOptions {
 export function decompose(train: Moments, options: SpectrumOptions): Spectrum {
   const p = train.d - 1;
   const d = train.d;
-  const scales = Float64Array.from({ length: p }, (_, q) =>
-    options.standardize ? Math.sqrt(train.cross[q * d + q] / train.count) : 1);
+  const scales = Float64Array.from(
+    { length: p },
+    (_, q) => options.standardize ? Math.sqrt(train.cross[q * d + q] / train.count) : 1,
+  );
   const m = asRegression(train, options.intercept);
   const metric = Float64Array.from(scales, (s, q) => 1 / (Math.sqrt(options.gamma[q]) * s));
   const a = new Float64Array(p * p);

@@ -28,7 +28,7 @@ import { bucketMoments, type Moments, removeMoments } from "./moments.ts";
 import { basisChange, changeMoments } from "./basis.ts";
 import { decompose, heldOutErrors, solutionAt, type Spectrum } from "./spectrum.ts";
 import { type LambdaGrid, lambdaGrid } from "./grid.ts";
-import { choose, type Choice, type SelectionRule } from "./select.ts";
+import { type Choice, choose, type SelectionRule } from "./select.ts";
 import { type FoldRequest, planFolds } from "./folds.ts";
 import { generalizedCrossValidation, leaveOneOutErrors } from "./loo.ts";
 
@@ -152,7 +152,16 @@ export function sweepPrepared(
     report({ stage: "summaries", done: r, total: plan.repeats });
     const buckets = bucketMoments(hi, p, y, bucketOf(plan.assignment[r], plan.k), plan.k + 1);
     for (let f = 0; f < plan.k; f++) {
-      const { train, validation, where } = foldSummaries(table, spec, terms, all, buckets, plan, r, f);
+      const { train, validation, where } = foldSummaries(
+        table,
+        spec,
+        terms,
+        all,
+        buckets,
+        plan,
+        r,
+        f,
+      );
       const sp = decompose(train, options);
       checkScales(sp, design.names, where);
       foldMse.push(heldOutErrors(sp, validation, lambdas));
@@ -263,7 +272,9 @@ function edgeNotes(minimum: Choice, count: number, grid: LambdaGrid | undefined)
   const explicit = Array.isArray(grid);
   if (minimum.index === 0) {
     return [
-      `The smallest CV error is at the smallest λ on the grid (${minimum.lambda.toPrecision(3)}); ` +
+      `The smallest CV error is at the smallest λ on the grid (${
+        minimum.lambda.toPrecision(3)
+      }); ` +
       (explicit ? "add smaller values" : "lower lambdas.min") + " to see whether it keeps falling.",
     ];
   }

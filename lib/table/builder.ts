@@ -91,23 +91,29 @@ class ColumnBuilder {
   }
 
   #addText(token: string, line: number): boolean {
+    if (this.#kind === "number") {
+      // Most tokens of a numeric column are numbers: try that first.
+      const v = parseDecimal(token);
+      if (Number.isFinite(v)) {
+        this.#addNumber(v, token, line);
+        return false;
+      }
+      if (isMissingToken(token)) {
+        this.#addMissing();
+        return true;
+      }
+      const code = Number.isNaN(v) && !isInfinityWord(token) ? "BAD_NUMBER" : "NOT_FINITE";
+      throw this.#valueError(code, token, line);
+    }
     if (isMissingToken(token)) {
       this.#addMissing();
       return true;
     }
     if (this.#kind === undefined) {
       this.#fix(looksNumeric(token) ? "number" : "category", token, line);
+      if (this.#kind === "number") return this.#addText(token, line);
     }
-    if (this.#kind === "category") {
-      this.#addLevel(token);
-      return false;
-    }
-    const v = parseDecimal(token);
-    if (Number.isNaN(v) && !isInfinityWord(token)) {
-      throw this.#valueError("BAD_NUMBER", token, line);
-    }
-    if (!Number.isFinite(v)) throw this.#valueError("NOT_FINITE", token, line);
-    this.#addNumber(v, token, line);
+    this.#addLevel(token);
     return false;
   }
 

@@ -36,7 +36,7 @@ export interface RenderOptions {
 }
 
 /** A Vega-Lite spec compiled to Vega, with the compiler's warnings. */
-export interface CompiledSpec {
+interface CompiledSpec {
   /** The Vega spec. */
   readonly vega: VegaSpec;
   /** Warnings logged by vega-lite while compiling, in order. */
@@ -56,9 +56,9 @@ let libraries: Promise<Libraries> | undefined;
 
 /**
  * Loads vega and vega-lite once. vega-lite requires vega's Node entry, whose loader pulls in
- * node-fetch → whatwg-url → the deprecated `punycode` module; Deno then prints a DEP0040
- * DeprecationWarning that would land in a notebook's stderr. The flag that silences it is set
- * only for the duration of this import and restored afterwards.
+ * node-fetch → whatwg-url → the deprecated `punycode` module, and `deno run` / `deno test` then
+ * print a DEP0040 DeprecationWarning on stderr (Deno's Jupyter kernel shows no process warnings).
+ * The flag that silences it is set only for the duration of this import and restored afterwards.
  */
 function loadLibraries(): Promise<Libraries> {
   libraries ??= (async () => {
@@ -119,22 +119,8 @@ function refusingLoader(errors: string[]) {
   return { load: refuse, sanitize: refuse, http: refuse, file: refuse };
 }
 
-/**
- * Compiles a Vega-Lite v5 spec to Vega, collecting (not printing) the compiler's warnings.
- * The caller's spec is not changed.
- *
- * @example
- * ```ts
- * import { compileVegaLite } from "./render.ts";
- * const { vega, warnings } = await compileVegaLite({
- *   data: { values: [{ x: 1, y: 2 }] },
- *   mark: "point",
- *   encoding: { x: { field: "x", type: "quantitative" }, y: { field: "y", type: "quantitative" } },
- * });
- * console.log(Object.keys(vega).length > 0, warnings.length); // true 0
- * ```
- */
-export async function compileVegaLite(spec: VegaLiteSpec): Promise<CompiledSpec> {
+/** Compiles a Vega-Lite v5 spec to Vega, keeping (not printing) the compiler's warnings. */
+async function compileVegaLite(spec: VegaLiteSpec): Promise<CompiledSpec> {
   const { vegaLite } = await loadLibraries();
   const warnings: string[] = [];
   const errors: string[] = [];

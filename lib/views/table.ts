@@ -2,8 +2,10 @@
  * Small tables in two forms: aligned plain text (for `text/plain`) and a bare HTML `<table>`
  * (for `text/html`, readable with no CSS). Both take the same input.
  *
- * Numbers are formatted to a fixed count of significant digits with trailing zeros dropped
- * (`Number(x.toPrecision(digits))`), so the same value always prints the same way. A column
+ * Numbers are written with `Number.prototype.toPrecision` (a fixed count of significant digits,
+ * exponent form when the value needs more integer digits than that or is below 1e-6) and
+ * trailing zeros dropped, so the same value always prints the same way and never shows digits
+ * it does not have. A column
  * whose cells are all numbers (empty strings allowed) is right-aligned, header included; every
  * other column is left-aligned. Width is counted in code points, which is exact for Latin, Greek
  * and the usual math symbols but not for double-width (East Asian) characters.
@@ -43,14 +45,15 @@ function checkDigits(digits: number): void {
 }
 
 /**
- * Writes one number with `digits` significant digits and no trailing zeros; `NaN` and infinities
- * are written as `NaN`, `Inf` and `-Inf`.
+ * Writes one number with at most `digits` significant digits (`toPrecision`, then trailing
+ * zeros dropped); `NaN` and infinities are written as `NaN`, `Inf` and `-Inf`.
  *
  * @example
  * ```ts
  * import { formatNumber } from "./table.ts";
  * formatNumber(2 / 3); // "0.666667"
- * formatNumber(1234.5, 3); // "1230"
+ * formatNumber(1.5); // "1.5"
+ * formatNumber(1234.5, 3); // "1.23e+3"
  * formatNumber(-Infinity); // "-Inf"
  * ```
  */
@@ -58,7 +61,9 @@ export function formatNumber(x: number, digits = 6): string {
   checkDigits(digits);
   if (Number.isNaN(x)) return "NaN";
   if (!Number.isFinite(x)) return x > 0 ? "Inf" : "-Inf";
-  return String(Number(x.toPrecision(digits)));
+  const [mantissa, exponent] = x.toPrecision(digits).split("e");
+  const trimmed = mantissa.includes(".") ? mantissa.replace(/\.?0+$/, "") : mantissa;
+  return exponent === undefined ? trimmed : `${trimmed}e${exponent}`;
 }
 
 function cellText(cell: Cell, digits: number): string {
