@@ -93,15 +93,8 @@ export function compare(
       ...c,
       target: options.target,
       rule: c.rule ?? options.rule,
-      progress: options.progress &&
-        ((p) => options.progress!({ ...p, candidate: c.name, done: p.done, total: p.total })),
+      progress: options.progress && ((p) => options.progress!({ ...p, candidate: c.name })),
     };
-    options.progress?.({
-      stage: "summaries",
-      done: i,
-      total: candidates.length,
-      candidate: c.name,
-    });
     const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
     return sweepPrepared(table, spec, plan, terms, design, y);
   });

@@ -18,7 +18,7 @@
  */
 
 import process from "node:process";
-import type { LoggerInterface, Spec as VegaSpec } from "vega";
+import type { LoggerInterface } from "vega";
 import type { TopLevelSpec } from "vega-lite";
 import { CurbfitError } from "../errors/error.ts";
 
@@ -33,14 +33,6 @@ export interface RenderOptions {
    * Chart tests catch them with `assertValidVegaLite` in test/vl_assert.ts.
    */
   readonly onWarning?: (message: string) => void;
-}
-
-/** A Vega-Lite spec compiled to Vega, with the compiler's warnings. */
-interface CompiledSpec {
-  /** The Vega spec. */
-  readonly vega: VegaSpec;
-  /** Warnings logged by vega-lite while compiling, in order. */
-  readonly warnings: readonly string[];
 }
 
 type VegaModule = typeof import("vega");
@@ -119,17 +111,6 @@ function refusingLoader(errors: string[]) {
   return { load: refuse, sanitize: refuse, http: refuse, file: refuse };
 }
 
-/** Compiles a Vega-Lite v5 spec to Vega, keeping (not printing) the compiler's warnings. */
-async function compileVegaLite(spec: VegaLiteSpec): Promise<CompiledSpec> {
-  const { vegaLite } = await loadLibraries();
-  const warnings: string[] = [];
-  const errors: string[] = [];
-  const compiled = vegaLite.compile(structuredClone(spec), {
-    logger: collectingLogger(warnings, errors),
-  });
-  return { vega: compiled.spec, warnings: [...warnings, ...errors] };
-}
-
 /**
  * Renders a Vega-Lite v5 spec to an SVG string in-process, deterministically (see the module
  * notes). Data must be inline (`data.values`); a spec that asks to load a URL or file fails.
@@ -152,17 +133,18 @@ async function compileVegaLite(spec: VegaLiteSpec): Promise<CompiledSpec> {
  * ```
  */
 export async function renderSvg(spec: VegaLiteSpec, options: RenderOptions = {}): Promise<string> {
-  const { vega } = await loadLibraries();
-  const compiled = await compileOrFail(spec);
-  compiled.warnings.forEach((w) => options.onWarning?.(w));
+  const { vega, vegaLite } = await loadLibraries();
   const warnings: string[] = [];
   const errors: string[] = [];
-  const view = new vega.View(vega.parse(compiled.vega), {
-    renderer: "none",
-    logger: collectingLogger(warnings, errors),
-    loader: refusingLoader(errors) as unknown as ReturnType<VegaModule["loader"]>,
-  });
+  const logger = collectingLogger(warnings, errors);
+  let view: InstanceType<VegaModule["View"]> | undefined;
   try {
+    const compiled = vegaLite.compile(structuredClone(spec), { logger });
+    view = new vega.View(vega.parse(compiled.spec), {
+      renderer: "none",
+      logger,
+      loader: refusingLoader(errors) as unknown as ReturnType<VegaModule["loader"]>,
+    });
     const svg = await view.toSVG();
     if (errors.length > 0) throw renderFailed(errors.join("; "));
     warnings.forEach((w) => options.onWarning?.(w));
@@ -170,15 +152,7 @@ export async function renderSvg(spec: VegaLiteSpec, options: RenderOptions = {})
   } catch (e) {
     throw e instanceof CurbfitError ? e : renderFailed(messageOf(e));
   } finally {
-    view.finalize();
-  }
-}
-
-async function compileOrFail(spec: VegaLiteSpec): Promise<CompiledSpec> {
-  try {
-    return await compileVegaLite(spec);
-  } catch (e) {
-    throw renderFailed(messageOf(e));
+    view?.finalize();
   }
 }
 
