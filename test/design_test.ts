@@ -124,6 +124,33 @@ Deno.test("learned terms apply to new rows of another table and count those outs
   assert.equal(at(d, 3, 3), 20.5, "values outside the range are written unchanged");
 });
 
+Deno.test("equal params mean equal columns: plain and power terms learn nothing that matters", () => {
+  // Contract in lib/design/types.ts (the sweep skips folds whose params did not change).
+  const table = makeTable({ x: [1, 2, 3, 4], z: [5, 6, 7, 8], g: ["a", "b", "a", "c"] });
+  const terms = [
+    column("z"),
+    power("x", 3),
+    indicators("g"),
+    product(column("x"), indicators("g")),
+  ];
+  const first = learnTerms(terms, table, Int32Array.of(0, 1));
+  const second = learnTerms(terms, table, Int32Array.of(2, 3));
+  assert.deepEqual(first.map((t) => t.params), second.map((t) => t.params));
+  const a = buildDesign(first, table);
+  const b = buildDesign(second, table);
+  assert.deepEqual(a.block, b.block, "identical columns");
+  assert.deepEqual(
+    a.outside.map((o) => o.count),
+    [2, 2, 0, 2],
+    "rows 2, 3 outside the training range",
+  );
+  assert.deepEqual(
+    b.outside.map((o) => o.count),
+    [2, 2, 0, 2],
+    "rows 0, 1 outside the training range",
+  );
+});
+
 Deno.test("a fixed domain is used as given, and a constant training column is then fine", () => {
   // Source: the term's definition.
   const table = makeTable({ x: [3, 3, 3, 7] });
@@ -213,7 +240,7 @@ Deno.test("product: params of both sides; a row outside either side counts once"
   );
   assert.deepEqual(learned[0].params, { left: { domain: [0, 2] }, right: { domain: [5, 7] } });
   assert.deepEqual(learned[1].params, {
-    left: { range: [0, 2] },
+    left: null,
     right: { levels: ["a", "b"], reference: "a" },
   });
   const d = buildDesign(learned, table);

@@ -61,6 +61,11 @@ const cases = [
     terms: () => [legendre("x", 6), column("z2")],
     opts: { standardize: false },
   },
+  {
+    name: "Legendre degree 30 (fold domains re-read from rows)",
+    terms: () => [legendre("x", 30)],
+    opts: {},
+  },
   { name: "no intercept", terms: () => [column("x"), column("z1")], opts: { intercept: false } },
   {
     name: "rising order weights",

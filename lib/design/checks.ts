@@ -8,7 +8,15 @@ import { CurbfitError } from "../errors/error.ts";
 import type { CategoryColumn, Column, NumericColumn, Table } from "../table/types.ts";
 import type { DesignBlock, Term } from "./types.ts";
 
-/** Largest polynomial degree a term accepts. */
+/**
+ * Largest polynomial degree a term accepts.
+ *
+ * @example
+ * ```ts
+ * import { MAX_DEGREE } from "./checks.ts";
+ * console.log(MAX_DEGREE); // 200
+ * ```
+ */
 export const MAX_DEGREE = 200;
 
 /** How many column names an unknown-column message lists before "and N more". */

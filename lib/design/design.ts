@@ -10,8 +10,8 @@ import { checkTerm, rowCount } from "./checks.ts";
 import type { Design, LearnedTerm, OutsideCount, Term } from "./types.ts";
 
 /**
- * Learns every term from `rows` of `table` (all rows when omitted): domains, ranges and levels
- * come from those rows only. Checks that the terms' output names are unique.
+ * Learns every term from `rows` of `table` (all rows when omitted): domains (and the ranges
+ * used to count rows outside them) come from those rows only. Checks that the terms' output names are unique.
  *
  * Errors: an unknown column (UNKNOWN_COLUMN, naming it, listing the table's columns and
  * suggesting the nearest name); two outputs with the same name (BAD_OPTION, option "terms");
@@ -20,7 +20,8 @@ import type { Design, LearnedTerm, OutsideCount, Term } from "./types.ts";
  * @example
  * ```ts
  * import { learnTerms } from "./design.ts";
- * import { column, power } from "./power.ts";
+ * import { legendre } from "./legendre.ts";
+ * import { column } from "./power.ts";
  * const table = {
  *   nRows: 4, names: ["x", "z"],
  *   columns: new Map([
@@ -29,8 +30,8 @@ import type { Design, LearnedTerm, OutsideCount, Term } from "./types.ts";
  *   ]),
  *   source: "rows", lineOfRow: Int32Array.of(1, 2, 3, 4), missing: { policy: "error" as const, droppedLines: [] },
  * };
- * const learned = learnTerms([power("x", 2), column("z")], table, Int32Array.of(0, 1));
- * console.log(learned[0].params); // { range: [ 1, 2 ] }
+ * const learned = learnTerms([legendre("x", 2), column("z")], table, Int32Array.of(0, 1));
+ * console.log(learned[0].params); // { domain: [ 1, 2 ] }
  * ```
  */
 export function learnTerms(

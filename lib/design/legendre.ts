@@ -2,8 +2,9 @@
  * Legendre polynomial terms. A numeric column is mapped affinely from its domain [lo, hi] onto
  * [−1, 1] (t = ((x − lo) − (hi − x)) / (hi − lo), exactly ±1 at the ends) and expanded as
  * P_1(t) … P_d(t) by Bonnet's recurrence (n + 1) P_{n+1} = (2n + 1) t P_n − n P_{n−1}, which is
- * stable for |t| ≤ 1 (Abramowitz & Stegun 22.7.10; forward recurrence error grows only linearly
- * in n there). P_0 = 1 is left to the model's intercept. Values are computed in double.
+ * stable for |t| ≤ 1 (Abramowitz & Stegun 22.7.10, equation number recalled from memory; the
+ * forward recurrence's error grows only slowly with n there, measured in test/legendre_test.ts).
+ * P_0 = 1 is left to the model's intercept. Values are computed in double.
  *
  * @module
  */
@@ -20,7 +21,16 @@ import {
 } from "./checks.ts";
 import type { LearnedTerm, Term } from "./types.ts";
 
-/** Options of `legendre`. */
+/**
+ * Options of `legendre`.
+ *
+ * @example
+ * ```ts
+ * import { legendre, type LegendreOptions } from "./legendre.ts";
+ * const options: LegendreOptions = { domain: [0, 100] };
+ * const term = legendre("age", 4, options);
+ * ```
+ */
 export interface LegendreOptions {
   /**
    * Interval mapped onto [−1, 1]. When omitted it is learned as the training rows' [min, max].
@@ -174,8 +184,8 @@ export function legendreValues(t: number, degree: number): Float64Array {
  * Computed without sampling: with t the `from` coordinate, the `to` coordinate is s = αt + β
  * (α = width_from / width_to, β = (sum_from − sum_to) / width_to), and the Legendre-basis
  * coefficients of P_j(s) follow Bonnet's recurrence on coefficient vectors, multiplying by t
- * with t·P_k = ((k+1) P_{k+1} + k P_{k−1}) / (2k+1) (A&S 22.7.10). For domains that differ by
- * a few percent α ≈ 1, β ≈ 0 and every step is well conditioned.
+ * with t·P_k = ((k+1) P_{k+1} + k P_{k−1}) / (2k+1) (the same recurrence solved for t·P_k).
+ * For domains that differ by a few percent α ≈ 1, β ≈ 0 and every step is well conditioned.
  *
  * Accuracy (test/legendre_test.ts): entries match exact rational arithmetic to about 2e-14
  * relative up to degree 50. Applying T is only as good as its size allows: when `to` is

@@ -21,8 +21,9 @@ import type { DesignBlock, Json, LearnedTerm, Term, TermKind } from "./types.ts"
 
 /**
  * Raw powers of a numeric column: `x`, `x^2`, …, `x^d` with orders 1…d, in double-double
- * (`block.hi` + `block.lo`). Learned parameter: `{ range: [min, max] }` of the training rows,
- * used only to count rows outside it (extrapolation); values are never changed by it.
+ * (`block.hi` + `block.lo`). Nothing learned affects the values (`params` is null); learning
+ * remembers the training rows' [min, max] only so that `apply` can count rows outside it
+ * (extrapolation).
  *
  * Errors: degree not a whole number in 1…200 (BAD_OPTION, option "degree"); a category column
  * (BAD_OPTION); an unknown column (UNKNOWN_COLUMN). Raw powers of a wide-ranging column are
@@ -50,8 +51,8 @@ export function power(column: string, degree: number): Term {
 }
 
 /**
- * A plain numeric column, one output named after the column, order 1. Learned parameter:
- * `{ range: [min, max] }` of the training rows, used only to count rows outside it.
+ * A plain numeric column, one output named after the column, order 1. Like `power`, `params` is
+ * null and the training rows' [min, max] is kept only to count rows outside it.
  *
  * `column` does not dispatch on category columns: naming one is an error that suggests
  * `indicators(name)`. A numeric-looking column that was loaded as categories (say, one stray
@@ -65,7 +66,10 @@ export function power(column: string, degree: number): Term {
  *   columns: new Map([["age", { kind: "number" as const, name: "age", values: Float64Array.of(31, 47) }]]),
  *   source: "rows", lineOfRow: Int32Array.of(1, 2), missing: { policy: "error" as const, droppedLines: [] },
  * };
- * console.log(column("age").learn(table).params); // { range: [ 31, 47 ] }
+ * const learned = column("age").learn(table, Int32Array.of(0));
+ * console.log(learned.names, learned.params); // [ "age" ] null
+ * const block = { n: 2, p: 1, hi: new Float64Array(2), lo: new Float64Array(2) };
+ * console.log(learned.apply(table, undefined, block, 0)); // 1 (47 is outside [31, 31])
  * ```
  */
 export function column(name: string): Term {
@@ -93,7 +97,7 @@ function powersTerm(kind: TermKind, label: string, name: string, degree: number,
         term,
         names,
         orders,
-        params: { range: [min, max] },
+        params: null,
         apply(table, rows, block, offset, outside) {
           const values = numericColumn(table, name, label).values;
           const n = rowCount(table, rows, label);

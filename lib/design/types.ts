@@ -7,7 +7,15 @@
  */
 import type { Table } from "../table/types.ts";
 
-/** JSON-safe values, for learned parameters written into records. */
+/**
+ * JSON-safe values, for learned parameters written into records.
+ *
+ * @example
+ * ```ts
+ * import type { Json } from "./types.ts";
+ * const params: Json = { domain: [0, 10] };
+ * ```
+ */
 export type Json =
   | null
   | boolean
@@ -29,13 +37,25 @@ export type Json =
  * ```
  */
 export interface DesignBlock {
+  /** Rows. */
   readonly n: number;
+  /** Columns. */
   readonly p: number;
+  /** Leading parts, length n·p, row-major. */
   readonly hi: Float64Array;
+  /** Trailing parts, length n·p, row-major (|lo| ≤ ulp(hi)/2). */
   readonly lo: Float64Array;
 }
 
-/** The kinds of term; `spec.kind` of every term is one of these. */
+/**
+ * The kinds of term; `spec.kind` of every term is one of these.
+ *
+ * @example
+ * ```ts
+ * import type { TermKind } from "./types.ts";
+ * const kinds: TermKind[] = ["legendre", "power", "column", "indicators", "product"];
+ * ```
+ */
 export type TermKind = "legendre" | "power" | "column" | "indicators" | "product";
 
 /**
@@ -50,6 +70,7 @@ export type TermKind = "legendre" | "power" | "column" | "indicators" | "product
  * ```
  */
 export interface Term {
+  /** What sort of term this is. */
   readonly kind: TermKind;
   /** Human label, e.g. `legendre(x, 10)`. */
   readonly label: string;
@@ -79,12 +100,18 @@ export interface Term {
  * ```
  */
 export interface LearnedTerm {
+  /** The recipe this was learned from. */
   readonly term: Term;
   /** One name per output column, e.g. `P3(x)`, `x^2`, `region=north`. */
   readonly names: readonly string[];
   /** Polynomial order of each output column (1 for plain columns and indicators). */
   readonly orders: readonly number[];
-  /** Learned parameters, JSON-safe. */
+  /**
+   * Learned parameters that determine the values, JSON-safe (null when nothing learned affects
+   * them): two learnings of one term with equal params (as JSON) write identical columns. The
+   * sweep relies on this to skip folds whose terms did not change. Bookkeeping that only feeds
+   * the outside count (e.g. a plain column's training range) is not part of params.
+   */
   readonly params: Json;
   /**
    * Writes this term's columns for `rows` (all rows when omitted) into `block`, starting at
@@ -102,10 +129,19 @@ export interface LearnedTerm {
   ): number;
 }
 
-/** How many rows one term found outside what it learned. */
+/**
+ * How many rows one term found outside what it learned.
+ *
+ * @example
+ * ```ts
+ * import type { OutsideCount } from "./types.ts";
+ * const entry: OutsideCount = { label: "legendre(x, 10)", count: 3 };
+ * ```
+ */
 export interface OutsideCount {
   /** The term's label, e.g. `legendre(x, 10)`. */
   readonly label: string;
+  /** Rows outside (0 when none). */
   readonly count: number;
 }
 
@@ -131,6 +167,7 @@ export interface Design {
   readonly orders: readonly number[];
   /** Index (into the learned-term list) of the term that wrote each column. */
   readonly termIndex: Int32Array;
+  /** The values, n × p row-major in double-double. */
   readonly block: DesignBlock;
   /** One entry per term, in term order: rows outside what that term learned (0 when none). */
   readonly outside: readonly OutsideCount[];

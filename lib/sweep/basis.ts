@@ -5,8 +5,8 @@
  * sweep summarizes rows once in the all-rows basis and maps the summaries into each fold's basis:
  *   x_fold = c + Aᵀ x_base   (A block-diagonal by term, c a constant absorbed by the intercept).
  * Terms whose fold parameters equal the base ones map by the identity. Anything else (e.g. a
- * product containing a Legendre factor) reports `undefined`, and the sweep rebuilds that fold's
- * design from rows instead.
+ * product containing a Legendre factor, or a high-degree change whose matrix entries would
+ * amplify rounding) reports `undefined`, and the sweep rebuilds that fold's design from rows.
  *
  * @module
  */
@@ -63,8 +63,13 @@ function termBlock(
     constant[j] = full[j + 1];
     for (let k = 0; k < size; k++) matrix[k * size + j] = full[(k + 1) * w + j + 1];
   }
+  // Large entries mean cancellation (high degree on a much narrower fold domain): rebuild instead.
+  if (matrix.some((v) => Math.abs(v) > MAX_REBASE_ENTRY)) return undefined;
   return { offset, size, matrix, constant };
 }
+
+/** Above this entry size a change of basis would cost more than ~4 digits; rows are re-read. */
+const MAX_REBASE_ENTRY = 1e4;
 
 function sameJson(a: Json, b: Json): boolean {
   return JSON.stringify(a) === JSON.stringify(b);
