@@ -26,7 +26,10 @@ export type ErrorCode =
   | "RANK_DEFICIENT"
   | "TOO_FEW_ROWS"
   | "READ_FAILED"
-  | "RENDER_FAILED";
+  | "RENDER_FAILED"
+  | "BAD_RECORD"
+  | "MAGIC_SYNTAX"
+  | "FOLDER_NOT_EMPTY";
 
 /** Where an error was found. All fields optional; the message already names them in words. */
 export interface ErrorPlace {

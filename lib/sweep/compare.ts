@@ -17,6 +17,7 @@ import { prepare, type TableInput } from "../fit/fit.ts";
 import { type ProgressListener, sweepPrepared, type SweepResult, type SweepSpec } from "./sweep.ts";
 import { type FoldRequest, planFolds } from "./folds.ts";
 import type { SelectionRule } from "./select.ts";
+import { sweepSource } from "../record/provenance.ts";
 
 /** A candidate: a name and the parts of a sweep spec that differ between candidates. */
 export interface Candidate extends Omit<SweepSpec, "target" | "folds" | "progress"> {
@@ -88,6 +89,7 @@ export function compare(
   checkCandidates(candidates);
   const table = toTable(data);
   const plan = planFolds(table, options.folds);
+  const source = sweepSource(table, options.target, candidates.map((c) => c.terms), options.folds);
   const sweeps = candidates.map((c) => {
     const spec: SweepSpec = {
       ...c,
@@ -96,7 +98,7 @@ export function compare(
       progress: options.progress && ((p) => options.progress!({ ...p, candidate: c.name })),
     };
     const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
-    return sweepPrepared(table, spec, plan, terms, design, y);
+    return sweepPrepared(table, spec, plan, terms, design, y, source);
   });
   const outcomes = sweeps.map((s, i) => {
     const point = s.curve[s.chosen.index];
@@ -141,7 +143,7 @@ export function pairedDifference(
 }
 
 function verdictLine(r: CandidateOutcome, best: string): string {
-  const fmt = (v: number) => v.toPrecision(3);
+  const fmt = (v: number) => String(Number(v.toPrecision(3)));
   const at = `CV error ${fmt(r.cvMean)} ± ${fmt(r.cvSe)} at λ = ${fmt(r.lambda)}`;
   if (r.versusBest === null) return `${r.name}: lowest ${at}.`;
   const d = r.versusBest;

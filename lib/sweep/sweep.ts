@@ -31,6 +31,12 @@ import { type LambdaGrid, lambdaGrid } from "./grid.ts";
 import { type Choice, choose, type SelectionRule } from "./select.ts";
 import { type FoldRequest, planFolds } from "./folds.ts";
 import { generalizedCrossValidation, leaveOneOutErrors } from "./loo.ts";
+import {
+  type SweepProvenance,
+  sweepProvenance,
+  type SweepSource,
+  sweepSource,
+} from "../record/provenance.ts";
 
 /** A progress report: `done` of `total` steps of `stage`. */
 export interface Progress {
@@ -104,6 +110,8 @@ export interface SweepResult {
   readonly notes: readonly string[];
   /** The chosen model refit on all rows with the exact solver. */
   readonly fit: Fit;
+  /** Data fingerprint and requests as given, for the model-choice record (lib/record). */
+  readonly provenance: SweepProvenance;
 }
 
 /**
@@ -122,7 +130,8 @@ export function sweep(data: Table | TableInput, spec: SweepSpec): SweepResult {
   const table = toTable(data);
   const plan = planFolds(table, spec.folds);
   const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
-  return sweepPrepared(table, spec, plan, terms, design, y);
+  const source = sweepSource(table, spec.target, [spec.terms], spec.folds);
+  return sweepPrepared(table, spec, plan, terms, design, y, source);
 }
 
 /** The sweep on an already prepared design and plan (shared with `compare`). */
@@ -133,6 +142,7 @@ export function sweepPrepared(
   terms: readonly LearnedTerm[],
   design: Design,
   y: Float64Array,
+  source: SweepSource,
 ): SweepResult {
   const options = {
     gamma: penaltyWeights(spec.penalty ?? ridge(), design.orders),
@@ -210,6 +220,7 @@ export function sweepPrepared(
     chosen,
     notes: edgeNotes(minimum, lambdas.length, spec.lambdas),
     fit: model,
+    provenance: sweepProvenance(source, spec.lambdas),
   });
 }
 

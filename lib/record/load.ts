@@ -1,0 +1,220 @@
+/**
+ * Loading a record back into usable models, without refitting.
+ *
+ * Terms are rebuilt from their recipes (`termFromSpec`) and learn their parameters from a
+ * *witness table*: a few rows whose numeric columns span exactly the recorded [min, max] of
+ * `data.columns` and whose category columns hold exactly the recorded levels. The all-rows
+ * learning the sweep did depends on nothing else (Legendre domains and the ranges that count
+ * extrapolation are min/max; indicator levels are the table's levels), and every rebuilt
+ * term's params and outputs are then checked against the record, so a mismatch is an error,
+ * never a silently different model. Coefficients come from the record as written.
+ *
+ * @module
+ */
+import { CurbfitError } from "../errors/error.ts";
+import { deepFreeze } from "../common/freeze.ts";
+import type { LearnedTerm } from "../design/types.ts";
+import { learnTerms, termFromSpec } from "../design/mod.ts";
+import type { Column, Table } from "../table/types.ts";
+import { Fit, type FitSummary, type Prediction, type TableInput } from "../fit/fit.ts";
+import { ridge } from "../fit/penalty.ts";
+import type { ColumnSummary } from "./fingerprint.ts";
+import { canonicalJson } from "./json.ts";
+import { parseRecord } from "./parse.ts";
+import type { ModelChoiceRecord, ModelSection } from "./schema.ts";
+
+/**
+ * One loaded model.
+ *
+ * @example
+ * ```ts
+ * import type { LoadedModel } from "./load.ts";
+ * const label = (m: LoadedModel) => `${m.name ?? "model"}: λ = ${m.fit.summary.lambda}`;
+ * ```
+ */
+export interface LoadedModel {
+  /** The candidate's name in a comparison; null for a single sweep. */
+  readonly name: string | null;
+  /** The chosen model, as the sweep's all-rows refit wrote it. */
+  readonly fit: Fit;
+}
+
+/**
+ * A record loaded back: the checked document and its models, ready to predict.
+ *
+ * @example
+ * ```ts
+ * import type { LoadedRecord } from "./load.ts";
+ * const predictAt = (loaded: LoadedRecord, x: number) => loaded.predict({ x: [x] }).values[0];
+ * ```
+ */
+export interface LoadedRecord {
+  /** The checked, frozen record. */
+  readonly record: ModelChoiceRecord;
+  /** Every model in the record, in record order. */
+  readonly models: readonly LoadedModel[];
+  /** The chosen model of a sweep, or the best candidate of a comparison. */
+  readonly fit: Fit;
+  /** Predictions of `fit` for new rows, with rows outside the learned ranges counted. */
+  predict(data: Table | TableInput): Prediction;
+}
+
+/**
+ * Loads a record (JSON text or a parsed record) into models that predict without refitting.
+ * Errors: BAD_RECORD for anything `parseRecord` refuses, or terms that do not rebuild to the
+ * recorded parameters.
+ *
+ * @example
+ * ```ts
+ * import { legendre, sweep } from "../../mod.ts";
+ * import { recordJson } from "./json.ts";
+ * import { loadRecord } from "./load.ts";
+ * const x = Array.from({ length: 30 }, (_, i) => i / 29);
+ * const s = sweep({ x, y: x.map((v, i) => Math.exp(v) + 0.05 * Math.sin(9 * i)) }, {
+ *   target: "y", terms: [legendre("x", 5)], folds: { k: 5, seed: 3 },
+ * });
+ * const loaded = loadRecord(recordJson(s));
+ * console.log(loaded.predict({ x: [0.5] }).values[0] === s.fit.predict({ x: [0.5] }).values[0]); // true
+ * ```
+ */
+export function loadRecord(input: unknown): LoadedRecord {
+  const record = parseRecord(input);
+  const witness = witnessTable(record.data.columns);
+  const models = record.models.map((m, i) => ({
+    name: m.name,
+    fit: modelFit(record, m, witness, `record.models[${i}]`),
+  }));
+  const chosen = record.comparison === null
+    ? models[0]
+    : models.find((m) => m.name === record.comparison!.best);
+  if (chosen === undefined) {
+    throw new CurbfitError(
+      "BAD_RECORD",
+      `record field record.comparison.best names ${
+        JSON.stringify(record.comparison!.best)
+      }, which is not a model of the record`,
+      "Use the record exactly as curbfit wrote it",
+      { option: "record.comparison.best" },
+    );
+  }
+  const fit = chosen.fit;
+  return Object.freeze({
+    record,
+    models: Object.freeze(models.map((m) => Object.freeze(m))),
+    fit,
+    predict: (data: Table | TableInput) => fit.predict(data),
+  });
+}
+
+function modelFit(
+  record: ModelChoiceRecord,
+  m: ModelSection,
+  witness: Table,
+  path: string,
+): Fit {
+  const terms = rebuildTerms(m, witness, path);
+  const penalty = asRecordError(
+    `${path}.penalty`,
+    () => ridge({ weights: m.penalty.weights, exponent: m.penalty.exponent }),
+  );
+  const f = m.final;
+  const summary: FitSummary = deepFreeze({
+    target: record.target,
+    n: f.n,
+    names: [...f.names],
+    orders: m.terms.flatMap((t) => t.orders),
+    penalty,
+    gamma: [...m.penalty.gamma],
+    lambda: f.lambda,
+    budget: f.budget,
+    df: f.df,
+    intercept: f.intercept,
+    coefficients: [...f.coefficients],
+    standardized: {
+      intercept: f.standardized.intercept,
+      coefficients: [...f.standardized.coefficients],
+    },
+    standardize: m.standardize,
+    hasIntercept: m.intercept,
+    means: [...f.means],
+    sds: [...f.sds],
+    trainMse: f.trainMse,
+    residualSd: f.residualSd,
+    condition: f.condition,
+    refinementSteps: f.refinementSteps,
+  });
+  return new Fit(summary, terms);
+}
+
+/** Learned terms rebuilt on the witness table and checked against the record. */
+function rebuildTerms(m: ModelSection, witness: Table, path: string): readonly LearnedTerm[] {
+  const learned = asRecordError(`${path}.terms`, () => {
+    const terms = m.terms.map((t, j) => termFromSpec(t.spec, `${path}.terms[${j}].spec`));
+    return learnTerms(terms, witness);
+  });
+  learned.forEach((t, j) => {
+    const recorded = m.terms[j];
+    const same = canonicalJson(t.params) === canonicalJson(recorded.params) &&
+      canonicalJson(t.names) === canonicalJson(recorded.outputs) &&
+      t.term.label === recorded.label;
+    if (!same) {
+      throw new CurbfitError(
+        "BAD_RECORD",
+        `term ${recorded.label} of ${path} rebuilds with params ${canonicalJson(t.params)} ` +
+          `and outputs ${t.names.join(", ")}, not the recorded ${
+            canonicalJson(recorded.params)
+          } and ${recorded.outputs.join(", ")}`,
+        "Use the record exactly as curbfit wrote it; verify(record, data) names what changed",
+        { option: `${path}.terms[${j}]` },
+      );
+    }
+  });
+  return learned;
+}
+
+/**
+ * A table whose every column has exactly the recorded summary: numeric columns take their
+ * min in row 0 and their max in every other row; category columns hold each level once (then
+ * the first level), keeping the recorded level list.
+ */
+function witnessTable(summaries: readonly ColumnSummary[]): Table {
+  const nRows = Math.max(2, ...summaries.map((c) => (c.kind === "category" ? c.levels.length : 0)));
+  const columns = new Map<string, Column>(summaries.map((c) => [
+    c.name,
+    c.kind === "number"
+      ? {
+        kind: "number",
+        name: c.name,
+        values: Float64Array.from({ length: nRows }, (_, i) => (i === 0 ? c.min : c.max)),
+      }
+      : {
+        kind: "category",
+        name: c.name,
+        levels: [...c.levels],
+        codes: Int32Array.from({ length: nRows }, (_, i) => (i < c.levels.length ? i : 0)),
+      },
+  ]));
+  return {
+    nRows,
+    names: summaries.map((c) => c.name),
+    columns,
+    source: "record",
+    lineOfRow: Int32Array.from({ length: nRows }, (_, i) => i + 1),
+    missing: { policy: "error", droppedLines: [] },
+  };
+}
+
+/** Runs `make`, turning a CurbfitError into BAD_RECORD for the record field `path`. */
+function asRecordError<T>(path: string, make: () => T): T {
+  try {
+    return make();
+  } catch (e) {
+    if (!(e instanceof CurbfitError)) throw e;
+    throw new CurbfitError(
+      "BAD_RECORD",
+      `record field ${path} cannot be rebuilt: ${e.message}`,
+      "Use the record exactly as curbfit wrote it; verify(record, data) names what changed",
+      { option: path },
+    );
+  }
+}

@@ -1,0 +1,122 @@
+/**
+ * The fixed sentences a record carries so that it can be read (and a statement rendered)
+ * without the library: the objective, the meaning of each CV column, the rule, the comparison
+ * criterion and the cautions. `verify` compares them exactly with what this version writes.
+ *
+ * @module
+ */
+import type { RidgePenalty } from "../fit/penalty.ts";
+import type { SelectionRule } from "../sweep/select.ts";
+
+/**
+ * The objective of one model, one statement per line (the convention of lib/fit/fit.ts).
+ *
+ * @example
+ * ```ts
+ * import { objectiveLines } from "./texts.ts";
+ * const lines = objectiveLines({ kind: "ridge", weights: "equal", exponent: 1 }, true, true);
+ * console.log(lines[0]); // minimize Σᵢ (yᵢ − b − zᵢᵀw)² + λ Σ_q γ_q (s_q w_q)² over b and w
+ * ```
+ */
+export function objectiveLines(
+  penalty: RidgePenalty,
+  standardize: boolean,
+  intercept: boolean,
+): string[] {
+  return [
+    "minimize Σᵢ (yᵢ − b − zᵢᵀw)² + λ Σ_q γ_q (s_q w_q)² over b and w",
+    "zᵢ: row i of the design (the terms' output columns, final.names); w_q: coefficient of " +
+    "column q on the original scale",
+    standardize
+      ? "s_q: standard deviation (divisor n) of design column q over the training rows; " +
+        "s_q w_q is the standardized coefficient"
+      : "s_q = 1 (standardize: false): the penalty acts on the original-scale coefficients",
+    intercept ? "b: the intercept, never penalized" : "b = 0 (intercept: false)",
+    gammaLine(penalty),
+    "λ ≥ 0 in sum-of-squares units; per training row the objective is " +
+    "E_in + (λ/N) Σ_q γ_q (s_q w_q)², with E_in the training mean squared error and N the " +
+    "number of training rows",
+  ];
+}
+
+function gammaLine(penalty: RidgePenalty): string {
+  const { weights, exponent } = penalty;
+  if (typeof weights !== "string") return "γ_q: given per design column (penalty.gamma)";
+  if (weights === "equal") return "γ_q = 1 for every column (ridge / weight decay)";
+  return weights === "rising"
+    ? `γ_q = order_q^${exponent}: higher polynomial orders are penalized more`
+    : `γ_q = order_q^(−${exponent}): lower polynomial orders are penalized more`;
+}
+
+/**
+ * What each column of the CV table means.
+ *
+ * @example
+ * ```ts
+ * import { CV_DEFINITIONS } from "./texts.ts";
+ * console.log(CV_DEFINITIONS.length > 0); // true
+ * ```
+ */
+export const CV_DEFINITIONS: readonly string[] = Object.freeze([
+  "foldMse[l][f]: mean squared error on the validation rows of fold f at λ = lambda[l], " +
+  "fitted on that fold's training rows with terms and standardization learned on them only; " +
+  "folds are repeat-major (repeat 0 folds 0…K−1, then repeat 1, …)",
+  "cvMean: mean of the K·R fold errors; cvSe: their standard deviation (divisor K·R − 1) " +
+  "divided by √K",
+  "trainMse: training mean squared error of the all-rows fit; foldTrainMse: mean training " +
+  "mean squared error over the folds' training rows",
+  "df: effective degrees of freedom Σ_j e_j/(e_j + λ) of the all-rows fit (intercept not " +
+  "counted); budget: C(λ) = Σ_q γ_q (s_q w_q)² of the all-rows fit",
+  "gcv: generalized cross-validation error of the all-rows fit; loo: closed-form " +
+  "leave-one-out mean squared error (null when not computed)",
+  "path[l]: standardized coefficients s_q w_q of the all-rows fit at λ = lambda[l], in " +
+  "final.names order",
+]);
+
+/**
+ * The rule in words.
+ *
+ * @example
+ * ```ts
+ * import { ruleDefinition } from "./texts.ts";
+ * console.log(ruleDefinition("min")); // min: the λ with the smallest cvMean (the first on ties)
+ * ```
+ */
+export function ruleDefinition(rule: SelectionRule): string {
+  return rule === "min"
+    ? "min: the λ with the smallest cvMean (the first on ties)"
+    : "one-se: the largest λ whose cvMean is at most cvMean + cvSe at the minimum " +
+      "(Breiman, Friedman, Olshen & Stone 1984)";
+}
+
+/**
+ * How a comparison pairs candidates.
+ *
+ * @example
+ * ```ts
+ * import { COMPARISON_CRITERION } from "./texts.ts";
+ * console.log(COMPARISON_CRITERION.startsWith("paired")); // true
+ * ```
+ */
+export const COMPARISON_CRITERION = "paired per-fold differences d_f = foldMse_f(candidate) − " +
+  "foldMse_f(best), each at its own chosen λ, on the identical folds; mean ± SE with SE = " +
+  "SD(d)/√K; indistinguishable when |mean| ≤ 2·SE (a rough screen: fold errors are " +
+  "correlated, so this is not a formal test)";
+
+/**
+ * Plain cautions every record carries.
+ *
+ * @example
+ * ```ts
+ * import { CAUTIONS } from "./texts.ts";
+ * console.log(CAUTIONS.length); // 3
+ * ```
+ */
+export const CAUTIONS: readonly string[] = Object.freeze([
+  "A cross-validation error is an estimate from a finite sample, with its own uncertainty " +
+  "(cvSe); it is not a guarantee of the error on new data.",
+  "Predictions for inputs outside the ranges in data.columns (and outside learned Legendre " +
+  "domains) are extrapolation: polynomial terms can grow quickly there.",
+  "Random folds assume exchangeable rows; rows that come in clusters or in time order need " +
+  "grouped or explicit folds, or the validation error looks better than it will be.",
+]);

@@ -1,0 +1,404 @@
+/**
+ * Model-choice records: schema, determinism, verify and loading. Data: seeded, invented.
+ * Outside references: SHA-256 (FIPS 180-4) through Web Crypto, an implementation independent of
+ * node:crypto; shortest round-trip number text as ECMA-262 Number::toString specifies it; the
+ * fold-assignment bytes as lib/folds/README.md states them.
+ */
+import assert from "node:assert/strict";
+import {
+  column,
+  compare,
+  CurbfitError,
+  explicitPlan,
+  groupedKFoldPlan,
+  indicators,
+  legendre,
+  power,
+  product,
+  ridge,
+  sweep,
+  type SweepResult,
+  tableFromColumns,
+  tableFromRows,
+} from "../mod.ts";
+import {
+  loadRecord,
+  type ModelChoiceRecord,
+  parseRecord,
+  recordJson,
+  recordOf,
+  rowsDigest,
+  SCHEMA,
+  verify,
+  type VerifyReport,
+} from "../lib/record/mod.ts";
+import { canonicalJson } from "../lib/record/json.ts";
+import { syntheticColumns } from "./helpers.ts";
+
+const COLS = syntheticColumns(41, 90, 1);
+
+function run(
+  cols: Record<string, readonly (number | string)[]> = COLS,
+  folds: { k: number; seed: number } = { k: 5, seed: 17 },
+): SweepResult {
+  return sweep(cols, {
+    target: "y",
+    terms: [legendre("x", 7), column("z1")],
+    lambdas: { count: 15 },
+    folds,
+    rule: "one-se",
+  });
+}
+
+/** The record as a mutable plain object (what a hand edit of the file produces). */
+// deno-lint-ignore no-explicit-any
+function editable(json: string): Record<string, any> {
+  return JSON.parse(json);
+}
+
+function failed(report: VerifyReport): string[] {
+  return report.failures.map((f) => f.field);
+}
+
+const JSON_TEXT = recordJson(run());
+
+Deno.test("record: fixed top-level schema and key order, byte-identical across runs", () => {
+  const again = recordJson(run());
+  assert.equal(again, JSON_TEXT, "two independent sweeps give byte-identical JSON");
+  const doc = JSON.parse(JSON_TEXT);
+  assert.deepEqual(Object.keys(doc), [
+    "schema",
+    "kind",
+    "created",
+    "software",
+    "target",
+    "data",
+    "folds",
+    "models",
+    "comparison",
+    "cautions",
+  ]);
+  assert.equal(doc.schema, SCHEMA);
+  assert.equal(doc.schema, "curbfit.model-choice/1");
+  assert.equal(doc.created, null, "no clock is read unless asked");
+  assert.equal(doc.folds.prng, "PCG32");
+  assert.equal(doc.folds.seed, 17);
+  assert.equal(doc.folds.k, 5);
+  assert.deepEqual(doc.data.columns.map((c: { name: string }) => c.name), ["x", "y", "z1"]);
+  const m = doc.models[0];
+  assert.deepEqual(m.terms[0].params.domain, [Math.min(...COLS.x), Math.max(...COLS.x)]);
+  assert.equal(m.grid.values.length, 15);
+  assert.equal(m.cv.foldMse[0].length, 5);
+  assert.equal(m.choice.rule, "one-se");
+  assert.equal(m.final.coefficients.length, 8);
+  assert.equal(m.final.standardized.coefficients.length, 8);
+  assert.match(m.objective[0], /λ Σ_q γ_q \(s_q w_q\)²/);
+  assert.ok(JSON_TEXT.endsWith("}\n"));
+});
+
+Deno.test("record: parse then write reproduces the bytes; createdAt only when given", () => {
+  assert.equal(recordJson(parseRecord(JSON_TEXT)), JSON_TEXT);
+  const when = new Date(Date.UTC(2031, 4, 6, 7, 8, 9));
+  const dated = JSON.parse(recordJson(run(), { createdAt: when }));
+  assert.equal(dated.created, "2031-05-06T07:08:09.000Z");
+  assert.throws(
+    () => recordOf(run(), { createdAt: new Date("not a date") }),
+    (e) => e instanceof CurbfitError && e.code === "BAD_OPTION",
+  );
+});
+
+Deno.test("record: numbers in shortest round-trip form, non-finite as strings (ECMA-262 Number::toString)", () => {
+  // ECMA-262 Number::toString: the shortest digit string that reads back as the same double.
+  assert.equal(
+    canonicalJson([0.1, 1e21, 5e-324, -0, 1 / 3]),
+    "[0.1, 1e+21, 5e-324, 0, 0.3333333333333333]",
+  );
+  assert.equal(canonicalJson([NaN, Infinity, -Infinity]), '["NaN", "Infinity", "-Infinity"]');
+  const doc = editable(JSON_TEXT);
+  for (const v of doc.models[0].cv.cvMean) assert.equal(Number(String(v)), v);
+  // A holdout plan has one fold, so cvSe is NaN: written "NaN", read back as NaN.
+  const s = sweep(COLS, {
+    target: "y",
+    terms: [legendre("x", 3)],
+    lambdas: [0.1, 1],
+    folds: { holdout: 0.25, seed: 5 },
+  });
+  const json = recordJson(s);
+  assert.deepEqual(JSON.parse(json).models[0].cv.cvSe, ["NaN", "NaN"]);
+  assert.ok(Number.isNaN(parseRecord(json).models[0].cv.cvSe[0]));
+  assert.equal(verify(json, COLS).ok, true);
+});
+
+/** SHA-256 by Web Crypto of the "curbfit.rows/1" bytes, written by hand from lib/record/README.md. */
+async function referenceDigest(
+  columns: readonly { name: string; kind: "N" | "C"; values: readonly (number | string)[] }[],
+  nRows: number,
+): Promise<string> {
+  const parts: number[] = [...new TextEncoder().encode("curbfit.rows/1\n")];
+  const u32 = (v: number) => parts.push(v & 255, (v >>> 8) & 255, (v >>> 16) & 255, v >>> 24);
+  const text = (s: string) => {
+    const b = new TextEncoder().encode(s);
+    u32(b.length);
+    for (const x of b) parts.push(x);
+  };
+  const f64 = (v: number) => {
+    const b = new Uint8Array(8);
+    new DataView(b.buffer).setFloat64(0, v, true);
+    for (const x of b) parts.push(x);
+  };
+  u32(nRows), u32(0); // row count as uint64 (below 2^32 here)
+  u32(columns.length);
+  for (const c of columns) text(c.name), parts.push(c.kind.charCodeAt(0));
+  for (let i = 0; i < nRows; i++) {
+    for (const c of columns) {
+      if (c.kind === "N") f64(c.values[i] as number);
+      else text(c.values[i] as string);
+    }
+  }
+  const digest = await crypto.subtle.digest("SHA-256", new Uint8Array(parts));
+  return Array.from(new Uint8Array(digest), (b) => b.toString(16).padStart(2, "0")).join("");
+}
+
+Deno.test("record: data fingerprint equals SHA-256 (Web Crypto) of the documented byte layout", async () => {
+  const x = [1.5, -0, 2];
+  const site = ["b", "é", "b"];
+  const mixed = tableFromColumns({ x, site });
+  assert.equal(
+    rowsDigest(3, [mixed.columns.get("site")!, mixed.columns.get("x")!]),
+    await referenceDigest([{ name: "site", kind: "C", values: site }, {
+      name: "x",
+      kind: "N",
+      values: x,
+    }], 3),
+  );
+  // All-numeric rows take a blocked path; 5000 rows × 2 columns span several 64 KiB blocks.
+  const a = Array.from({ length: 5000 }, (_, i) => Math.sin(i) * 1e3);
+  const b = Array.from({ length: 5000 }, (_, i) => i / 7);
+  const numeric = tableFromColumns({ a, b });
+  assert.equal(
+    rowsDigest(5000, [numeric.columns.get("a")!, numeric.columns.get("b")!]),
+    await referenceDigest([{ name: "a", kind: "N", values: a }, {
+      name: "b",
+      kind: "N",
+      values: b,
+    }], 5000),
+  );
+});
+
+Deno.test("verify: an untouched record matches, with every tolerance stated", () => {
+  const report = verify(JSON_TEXT, COLS);
+  assert.equal(report.ok, true, report.text());
+  assert.ok(report.entries.length > 40);
+  const byField = new Map(report.entries.map((e) => [e.field, e]));
+  assert.equal(byField.get("data.sha256")!.tolerance, "exact");
+  assert.equal(byField.get("folds.assignmentSha256")!.tolerance, "exact");
+  assert.equal(byField.get("models[0].cv.cvMean")!.tolerance, "relative 1e-9 (each value)");
+  assert.match(byField.get("models[0].final.coefficients")!.tolerance, /relative 1e-9/);
+  assert.match(report.text(), /^Record check: MATCH/);
+  assert.ok(Object.isFrozen(report) && Object.isFrozen(report.entries));
+  const display = (report as unknown as Record<symbol, () => Record<string, string>>)[
+    Symbol.for("Jupyter.display")
+  ]();
+  assert.equal(display["text/plain"], report.text());
+});
+
+Deno.test("verify: a hand-edited coefficient is named and nothing else fails", () => {
+  const doc = editable(JSON_TEXT);
+  doc.models[0].final.coefficients[2] *= 1 + 1e-6;
+  const report = verify(doc, COLS);
+  assert.deepEqual(failed(report), ["models[0].final.coefficients"]);
+  assert.match(report.failures[0].where ?? "", /P3\(x\)/);
+  assert.match(report.text(), /MISMATCH \(1 of/);
+});
+
+Deno.test("verify: an edited chosen λ, or an edited grid λ, is detected", () => {
+  const chosen = editable(JSON_TEXT);
+  chosen.models[0].choice.lambda *= 2;
+  assert.deepEqual(failed(verify(chosen, COLS)), ["models[0].choice.lambda"]);
+
+  const grid = editable(JSON_TEXT);
+  grid.models[0].grid.values[4] *= 1.01; // an automatic grid: regenerated from its ends
+  const fields = failed(verify(grid, COLS));
+  assert.ok(fields.includes("models[0].grid.values"), fields.join());
+
+  const explicit = recordJson(
+    sweep(COLS, {
+      target: "y",
+      terms: [legendre("x", 7)],
+      lambdas: [0.01, 0.1, 1, 10],
+      folds: { k: 5, seed: 17 },
+    }),
+  );
+  const edited = editable(explicit);
+  edited.models[0].grid.values[1] = 0.2;
+  const named = failed(verify(edited, COLS));
+  assert.ok(
+    named.includes("models[0].cv.lambda") && named.includes("models[0].cv.cvMean"),
+    named.join(),
+  );
+});
+
+Deno.test("verify: a changed seed or k shows in the rebuilt fold assignment", () => {
+  const seed = editable(JSON_TEXT);
+  seed.folds.seed = 18;
+  const bySeed = verify(seed, COLS);
+  assert.ok(failed(bySeed).includes("folds.assignmentSha256"), failed(bySeed).join());
+  const entry = bySeed.failures.find((f) => f.field === "folds.assignmentSha256")!;
+  assert.match(entry.where ?? "", /PCG32 seed 18, k 5/);
+
+  const k = editable(JSON_TEXT);
+  k.folds.k = 6;
+  const byK = failed(verify(k, COLS));
+  assert.ok(byK.includes("folds.assignmentSha256"), byK.join());
+  assert.ok(byK.includes("models[0].cv.foldMse"), byK.join());
+});
+
+Deno.test("verify: one changed data value or one removed row is detected", () => {
+  const changed = { ...COLS, z1: [...COLS.z1] };
+  changed.z1[37] += 1e-9;
+  const byValue = failed(verify(JSON_TEXT, changed));
+  assert.ok(byValue.includes("data.sha256"), byValue.join());
+
+  const removed = Object.fromEntries(
+    Object.entries(COLS).map(([k, v]) => [k, v.filter((_, i) => i !== 50)]),
+  );
+  const byRow = failed(verify(JSON_TEXT, removed));
+  for (const f of ["data.rows", "data.sha256", "folds.rows", "folds.assignmentSha256"]) {
+    assert.ok(byRow.includes(f), `${f} in ${byRow.join()}`);
+  }
+});
+
+Deno.test("verify: a missing column is a mismatch, not a crash", () => {
+  const { z1: _dropped, ...rest } = COLS;
+  const report = verify(JSON_TEXT, rest);
+  assert.ok(failed(report).includes("data.columns[2]"));
+  assert.ok(failed(report).includes("rerun"));
+});
+
+Deno.test("records from a newer schema, malformed JSON or edited structure are BAD_RECORD", () => {
+  const isBad = (pattern: RegExp, option?: string) => (e: unknown) =>
+    e instanceof CurbfitError && e.code === "BAD_RECORD" && pattern.test(e.message) &&
+    (option === undefined || e.place.option === option);
+  const newer = editable(JSON_TEXT);
+  newer.schema = "curbfit.model-choice/2";
+  assert.throws(() => verify(JSON.stringify(newer), COLS), isBad(/newer than this curbfit/));
+  assert.throws(() => loadRecord(JSON_TEXT.slice(0, 500)), isBad(/not valid JSON/));
+  assert.throws(() => parseRecord('{"schema": "something-else/1"}'), isBad(/not a curbfit/));
+  const missing = editable(JSON_TEXT);
+  delete missing.models[0].final.sds;
+  assert.throws(() => parseRecord(missing), isBad(/is missing/, "record.models[0].final.sds"));
+  const extra = editable(JSON_TEXT);
+  extra.folds.note = "hand-added";
+  assert.throws(() => parseRecord(extra), isBad(/not a field/, "record.folds.note"));
+  const typed = editable(JSON_TEXT);
+  typed.models[0].cv.cvMean[3] = "0.5";
+  assert.throws(() => parseRecord(typed), isBad(/not a number/, "record.models[0].cv.cvMean[3]"));
+  const short = editable(JSON_TEXT);
+  short.models[0].final.coefficients.pop();
+  assert.throws(() => loadRecord(short), isBad(/entries for 8 design columns/));
+});
+
+Deno.test("loadRecord: predictions equal the original fit's without refitting", () => {
+  const s = run();
+  const loaded = loadRecord(recordJson(s));
+  const fresh = syntheticColumns(99, 30, 1); // new rows, some outside the training range of x
+  const a = s.fit.predict(fresh);
+  const b = loaded.predict(fresh);
+  a.values.forEach((v, i) =>
+    assert.ok(Math.abs(b.values[i] - v) <= 1e-12 * Math.max(1, Math.abs(v)))
+  );
+  assert.deepEqual(b.outside, a.outside, "extrapolation counts come from the recorded ranges");
+  assert.deepEqual(loaded.fit.summary.coefficients, s.fit.summary.coefficients);
+  assert.equal(loaded.fit.summary.lambda, s.chosen.lambda);
+});
+
+Deno.test("loadRecord: categories, products and powers rebuild from the recorded summaries", () => {
+  const n = 72;
+  const rows = Array.from({ length: n }, (_, i) => {
+    const x = COLS.x[i];
+    const site = ["north", "east", "west"][i % 3];
+    return { x, site, y: COLS.y[i] + (site === "east" ? 0.4 : 0) + 0.1 * x * (i % 3) };
+  });
+  const s = sweep(tableFromRows(rows), {
+    target: "y",
+    terms: [power("x", 2), indicators("site"), product(legendre("x", 2), indicators("site"))],
+    penalty: ridge({ weights: "rising", exponent: 2 }),
+    lambdas: [0.01, 0.1, 1],
+    folds: { k: 4, seed: 8 },
+  });
+  const json = recordJson(s);
+  const loaded = loadRecord(json);
+  const probe = rows.slice(0, 9);
+  const a = s.fit.predict(probe).values;
+  const b = loaded.predict(probe).values;
+  a.forEach((v, i) => assert.ok(Math.abs(b[i] - v) <= 1e-12 * Math.max(1, Math.abs(v))));
+  assert.equal(verify(json, rows).ok, true);
+});
+
+Deno.test("grouped (by column and by labels) and explicit folds verify; grouped-by-column replays", () => {
+  const n = COLS.x.length;
+  const site = Array.from({ length: n }, (_, i) => `s${i % 9}`);
+  const data = { ...COLS, site };
+  const terms = [legendre("x", 4), column("z1")];
+  const byColumn = recordJson(
+    sweep(data, {
+      target: "y",
+      terms,
+      lambdas: [0.1, 1],
+      folds: { k: 3, seed: 2, groups: "site" },
+    }),
+  );
+  const doc = JSON.parse(byColumn);
+  assert.equal(doc.folds.groupColumn, "site");
+  assert.equal(doc.folds.assignment, null, "rebuilt from the column, so not stored");
+  assert.ok(doc.data.columns.some((c: { name: string }) => c.name === "site"));
+  assert.equal(verify(byColumn, data).ok, true);
+
+  const labels = groupedKFoldPlan(n, { groups: site, k: 3, seed: 2 });
+  const byLabels = recordJson(
+    sweep(COLS, { target: "y", terms, lambdas: [0.1, 1], folds: labels }),
+  );
+  assert.equal(
+    JSON.parse(byLabels).folds.assignment.length,
+    1,
+    "labels are not in the data: stored",
+  );
+  assert.equal(verify(byLabels, COLS).ok, true);
+
+  const years = explicitPlan(n, { assignment: Array.from({ length: n }, (_, i) => i % 4) });
+  const explicit = recordJson(sweep(COLS, { target: "y", terms, lambdas: [0.1, 1], folds: years }));
+  assert.equal(verify(explicit, COLS).ok, true);
+  const moved = editable(explicit);
+  moved.folds.assignment[0][0] = 1;
+  assert.ok(failed(verify(moved, COLS)).includes("folds.assignmentSha256"));
+});
+
+Deno.test("comparison records hold every candidate, verify, and load the best", () => {
+  const c = compare(COLS, [
+    { name: "line", terms: [column("x"), column("z1")], lambdas: [0] },
+    { name: "degree 7", terms: [legendre("x", 7), column("z1")], lambdas: { count: 8 } },
+  ], { target: "y", folds: { k: 5, seed: 23 } });
+  const json = recordJson(c);
+  const record: ModelChoiceRecord = parseRecord(json);
+  assert.equal(record.kind, "comparison");
+  assert.deepEqual(record.models.map((m) => m.name), ["line", "degree 7"]);
+  assert.equal(record.comparison!.best, c.best);
+  assert.equal(verify(json, COLS).ok, true);
+  const loaded = loadRecord(json);
+  assert.equal(loaded.fit, loaded.models.find((m) => m.name === c.best)!.fit);
+  const best = c.candidates.find((o) => o.name === c.best)!.sweep.fit;
+  assert.deepEqual(loaded.predict(COLS).values, best.predict(COLS).values);
+  const edited = editable(json);
+  edited.comparison.candidates[0].cvMean *= 1.001;
+  assert.deepEqual(failed(verify(edited, COLS)), ["comparison.candidates[0].cvMean"]);
+});
+
+Deno.test("a record never freezes or keeps the caller's objects", () => {
+  const grid = [0.5, 0.05, 5];
+  const term = legendre("x", 3);
+  const s = sweep(COLS, { target: "y", terms: [term], lambdas: grid, folds: { k: 4, seed: 1 } });
+  recordOf(s);
+  assert.equal(Object.isFrozen(grid), false);
+  assert.equal(Object.isFrozen(term.spec), false);
+  assert.deepEqual(grid, [0.5, 0.05, 5]);
+});
