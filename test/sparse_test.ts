@@ -1,0 +1,389 @@
+/**
+ * The lasso / elastic-net solver (lib/sparse) against outside references:
+ * - scikit-learn 1.2.1 (Debian python3-sklearn) `Lasso` and `ElasticNet` coefficients on the
+ *   diabetes data of Efron, Hastie, Johnstone & Tibshirani (2004), standardized with the
+ *   population SD, numbers committed in test/reference/sparse/reference.json by
+ *   make_reference.py there (which also checks them against exact active-set solutions);
+ * - the order in which variables enter and leave the lasso path, from scikit-learn's
+ *   `lars_path(method="lasso")` on the same data;
+ * - the optimality (KKT) conditions, recomputed here from the rows, not from the summaries;
+ * - the documented conversion to ridge (λ_ridge = N·α), against the ridge engine.
+ * Synthetic data below is invented (seeded), for the checks that need no outside numbers.
+ */
+import assert from "node:assert/strict";
+import { CurbfitError } from "../lib/errors/error.ts";
+import { bucketMoments, type Moments, removeMoments } from "../lib/sweep/moments.ts";
+import { decompose, solutionAt } from "../lib/sweep/spectrum.ts";
+import { SeededStream } from "../lib/folds/mod.ts";
+import {
+  alphaGrid,
+  alphaMax,
+  elasticNet,
+  gramProblem,
+  lasso,
+  type SparsePath,
+  sparsePath,
+  sparsePathFromRows,
+  type SparsePenalty,
+  type SparseSolution,
+} from "../lib/sparse/mod.ts";
+import { normals } from "./helpers.ts";
+
+interface ReferenceFit {
+  mix: number;
+  alpha: number;
+  alphaMax: number;
+  standardized: number[];
+  coefficients: number[];
+  intercept: number;
+}
+
+interface Reference {
+  data: { file: string; sha256: string; rows: number; columns: string[] };
+  means: number[];
+  sds: number[];
+  fits: ReferenceFit[];
+  lars: {
+    alphas: number[];
+    events: string[];
+    midpoints: { alpha: number; standardized: number[]; active: string[] }[];
+  };
+}
+
+const HERE = new URL("./reference/sparse/", import.meta.url);
+const REF: Reference = JSON.parse(await Deno.readTextFile(new URL("reference.json", HERE)));
+const CSV = await Deno.readTextFile(new URL(REF.data.file, HERE));
+const NAMES = REF.data.columns;
+const P = NAMES.length;
+
+/** The diabetes rows: x (n×10 row-major) and y. */
+function diabetes(): { x: Float64Array; y: Float64Array; n: number } {
+  const rows = CSV.trim().split("\n").slice(1).map((line) => line.split(",").map(Number));
+  const x = Float64Array.from(rows.flatMap((r) => r.slice(0, P)));
+  const y = Float64Array.from(rows, (r) => r[P]);
+  return { x, y, n: rows.length };
+}
+
+function penaltyFor(mix: number): SparsePenalty {
+  return mix === 1 ? lasso() : elasticNet({ mix });
+}
+
+function maxAbsDiff(a: readonly number[], b: readonly number[]): number {
+  assert.equal(a.length, b.length);
+  return Math.max(...a.map((v, i) => Math.abs(v - b[i])));
+}
+
+/**
+ * Largest scaled KKT violation of a solution, from the rows: z = standardized (or raw) columns,
+ * r = y − b − xᵀw, g_j = ⟨z_j, r⟩/N, scaled by √(mean z_j² · mean r₀²) with r₀ = y − ȳ (or y).
+ */
+function kktFromRows(
+  x: Float64Array,
+  y: Float64Array,
+  path: SparsePath,
+  s: SparseSolution,
+): number {
+  const n = y.length;
+  const p = x.length / n;
+  const mix = path.penalty.mix;
+  const a = s.alpha * mix, beta = s.alpha * (1 - mix);
+  const ybar = path.intercept ? y.reduce((t, v) => t + v, 0) / n : 0;
+  const r = Float64Array.from(y, (v, i) => {
+    let fitted = s.intercept;
+    for (let q = 0; q < p; q++) fitted += x[i * p + q] * s.coefficients[q];
+    return v - fitted;
+  });
+  const vy = y.reduce((t, v) => t + (v - ybar) ** 2, 0) / n;
+  let worst = 0;
+  for (let q = 0; q < p; q++) {
+    const center = path.intercept ? path.means[q] : 0;
+    let g = 0, zz = 0;
+    for (let i = 0; i < n; i++) {
+      const z = (x[i * p + q] - center) / path.scales[q];
+      g += z * r[i];
+      zz += z * z;
+    }
+    g /= n;
+    const w = s.standardized[q];
+    const raw = w === 0 ? Math.max(Math.abs(g) - a, 0) : Math.abs(g - beta * w - Math.sign(w) * a);
+    worst = Math.max(worst, raw / Math.sqrt((zz / n) * vy));
+  }
+  return worst;
+}
+
+Deno.test("the diabetes copy is the one the reference was made from (SHA-256, means, SDs)", async () => {
+  const bytes = new TextEncoder().encode(CSV);
+  const digest = new Uint8Array(await crypto.subtle.digest("SHA-256", bytes));
+  assert.equal(
+    Array.from(digest, (b) => b.toString(16).padStart(2, "0")).join(""),
+    REF.data.sha256,
+  );
+  const { x, y, n } = diabetes();
+  assert.equal(n, REF.data.rows);
+  const path = sparsePathFromRows(x, P, y, lasso(), { alphas: [1] });
+  assert.ok(maxAbsDiff(path.means, REF.means) < 1e-12);
+  // population SD (divisor N), as numpy.std(ddof=0) in the script
+  path.scales.forEach((s, q) => assert.ok(Math.abs(s / REF.sds[q] - 1) < 1e-13));
+});
+
+for (const mix of [1, 0.5, 0.2]) {
+  const label = mix === 1 ? "Lasso" : `ElasticNet(l1_ratio=${mix})`;
+  Deno.test(`coefficients equal scikit-learn ${label} on the diabetes data to 1e-6`, () => {
+    const fits = REF.fits.filter((f) => f.mix === mix);
+    const { x, y } = diabetes();
+    const path = sparsePathFromRows(x, P, y, penaltyFor(mix), {
+      alphas: fits.map((f) => f.alpha),
+      tolerance: 1e-13,
+    });
+    assert.ok(Math.abs(path.alphaMax / fits[0].alphaMax - 1) < 1e-12);
+    fits.forEach((ref) => {
+      const s = path.solutions.find((t) => t.alpha === ref.alpha) as SparseSolution;
+      assert.ok(s.converged);
+      // scikit-learn's coef_ on the standardized columns is our standardized coefficients
+      assert.ok(maxAbsDiff(s.standardized, ref.standardized) < 1e-6, `α = ${ref.alpha}`);
+      assert.ok(maxAbsDiff(s.coefficients, ref.coefficients) < 1e-6, `α = ${ref.alpha}`);
+      assert.ok(Math.abs(s.intercept - ref.intercept) < 1e-6, `α = ${ref.alpha}`);
+      assert.equal(s.nonzero, ref.standardized.filter((v) => v !== 0).length);
+    });
+  });
+}
+
+Deno.test("the lasso path equals scikit-learn's lars_path(method='lasso'): coefficients and entry order", () => {
+  const { x, y } = diabetes();
+  const mids = REF.lars.midpoints;
+  const path = sparsePathFromRows(x, P, y, lasso(), {
+    alphas: mids.map((m) => m.alpha),
+    tolerance: 1e-13,
+  });
+  assert.ok(Math.abs(path.alphaMax / REF.lars.alphas[0] - 1) < 1e-12);
+  const events: string[] = [];
+  let before = new Set<string>();
+  path.solutions.forEach((s, k) => {
+    assert.equal(s.alpha, mids[k].alpha);
+    assert.ok(maxAbsDiff(s.standardized, mids[k].standardized) < 1e-6, `segment ${k + 1}`);
+    const now = new Set(NAMES.filter((_, q) => s.standardized[q] !== 0));
+    NAMES.forEach((name) => now.has(name) && !before.has(name) && events.push(`+${name}`));
+    NAMES.forEach((name) => before.has(name) && !now.has(name) && events.push(`-${name}`));
+    before = now;
+  });
+  assert.deepEqual(events, REF.lars.events);
+  // Efron et al. (2004), diabetes example: bmi enters first, then s5 (ltg), then bp — recalled
+  // from memory, and confirmed above by lars_path.
+  assert.deepEqual(events.slice(0, 3), ["+bmi", "+s5", "+bp"]);
+});
+
+for (const mix of [1, 0.5]) {
+  Deno.test(`KKT holds (from the rows) at every solution of an automatic path, mix ${mix}`, () => {
+    const { x, y } = diabetes();
+    const variants = [
+      { tolerance: 1e-7 },
+      { tolerance: 1e-10 },
+      { tolerance: 1e-10, intercept: false },
+      { tolerance: 1e-10, standardize: false },
+    ];
+    for (const options of variants) {
+      const path = sparsePathFromRows(x, P, y, penaltyFor(mix), options);
+      assert.equal(path.solutions.length, 100);
+      for (const s of path.solutions) {
+        assert.ok(s.converged && s.violation <= options.tolerance);
+        // the solver's own check, recomputed from rows: differs only by rounding (≤ 1e-12)
+        const fromRows = kktFromRows(x, y, path, s);
+        assert.ok(fromRows <= options.tolerance + 1e-12, `${JSON.stringify(options)} ${fromRows}`);
+        assert.ok(s.gap >= -1e-12 * s.trainMse && s.gap <= 1e-6 * path.solutions[0].trainMse);
+      }
+    }
+  });
+}
+
+Deno.test("warm-started path equals cold starts at every α to 1e-6 (tolerance 1e-10), in fewer passes", () => {
+  const { x, y } = diabetes();
+  for (const penalty of [lasso(), elasticNet({ mix: 0.3 })]) {
+    const warm = sparsePathFromRows(x, P, y, penalty, { tolerance: 1e-10 });
+    const cold = sparsePathFromRows(x, P, y, penalty, { tolerance: 1e-10, warmStart: false });
+    warm.solutions.forEach((s, k) => {
+      assert.equal(s.alpha, cold.solutions[k].alpha);
+      // both have scaled KKT violation ≤ 1e-10, i.e. gradients within 1e-10·SD(y) ≈ 8e-9;
+      // the smallest eigenvalue of the diabetes correlation matrix is ≈ 0.01, so coefficients
+      // may differ by up to about 1e-6 in the worst case.
+      assert.ok(maxAbsDiff(s.standardized, cold.solutions[k].standardized) < 1e-6);
+    });
+    const passes = (p: SparsePath) => p.solutions.reduce((t, s) => t + s.passes, 0);
+    assert.ok(passes(warm) < passes(cold));
+  }
+});
+
+Deno.test("α_max is the smallest α with all coefficients zero; the automatic path spans α_max·[1e-3, 1]", () => {
+  const { x, y, n } = diabetes();
+  for (const penalty of [lasso(), elasticNet({ mix: 0.2 })]) {
+    const top = sparsePathFromRows(x, P, y, penalty, { alphas: [1] }).alphaMax;
+    const path = sparsePathFromRows(x, P, y, penalty, {
+      alphas: [top, top * (1 - 1e-9)],
+      tolerance: 1e-13, // so the tiny first coefficient (≈ 1e-9 of the gradient) must appear
+    });
+    assert.equal(path.solutions[0].nonzero, 0);
+    assert.equal(path.solutions[1].nonzero, 1);
+    assert.ok(path.solutions[1].standardized[NAMES.indexOf("bmi")] > 0);
+    const [m] = bucketMoments(x, P, y, new Int32Array(n), 1);
+    const grid = alphaGrid(gramProblem(m), penalty);
+    assert.equal(grid.length, 100);
+    assert.equal(grid[0], top);
+    assert.ok(Math.abs(grid[99] / (1e-3 * top) - 1) < 1e-14); // N = 442 > p = 10: ε = 1e-3
+    grid.slice(1).forEach((a, i) =>
+      assert.ok(Math.abs(a / grid[i] / 1e-3 ** (1 / 99) - 1) < 1e-12)
+    );
+  }
+});
+
+/** Seeded, invented rows with more columns than rows: y depends on the first 3 of p columns. */
+function wide(n: number, p: number, seed: number): { x: Float64Array; y: Float64Array } {
+  const s = new SeededStream(seed);
+  const x = normals(s, n * p);
+  const e = normals(s, n);
+  const y = Float64Array.from(
+    e,
+    (v, i) => 3 * x[i * p] - 2 * x[i * p + 1] + x[i * p + 2] + 0.5 * v,
+  );
+  return { x, y };
+}
+
+Deno.test("N ≤ p: automatic path stops at 1e-2·α_max, KKT holds from the rows", () => {
+  const { x, y } = wide(30, 60, 5);
+  const path = sparsePathFromRows(x, 60, y, lasso(), { tolerance: 1e-9, alphas: { count: 40 } });
+  const last = path.solutions[39];
+  assert.ok(Math.abs(last.alpha / (1e-2 * path.alphaMax) - 1) < 1e-14);
+  for (const s of path.solutions) assert.ok(kktFromRows(x, y, path, s) <= 1e-9 + 1e-12);
+  assert.ok(last.nonzero <= 30); // a lasso solution has at most N nonzeros here (generic data)
+});
+
+Deno.test("held-out and training MSE from summaries equal direct computation from rows", () => {
+  const { x, y, n } = diabetes();
+  const side = Int32Array.from({ length: n }, (_, i) => (i % 5 === 2 ? 1 : 0));
+  const [train, validation] = bucketMoments(x, P, y, side, 2);
+  const path = sparsePath(gramProblem(train), elasticNet({ mix: 0.7 }), {
+    validation,
+    alphas: { count: 30 },
+  });
+  const mse = (s: SparseSolution, which: number) => {
+    let sse = 0, count = 0;
+    for (let i = 0; i < n; i++) {
+      if (side[i] !== which) continue;
+      let fitted = s.intercept;
+      for (let q = 0; q < P; q++) fitted += x[i * P + q] * s.coefficients[q];
+      sse += (y[i] - fitted) ** 2;
+      count++;
+    }
+    return sse / count;
+  };
+  for (const s of path.solutions) {
+    assert.ok(Math.abs((s.heldOutMse as number) / mse(s, 1) - 1) < 1e-10);
+    assert.ok(Math.abs(s.trainMse / mse(s, 0) - 1) < 1e-10);
+  }
+});
+
+Deno.test("a fold's path from summaries (whole minus fold) equals the path from its training rows", () => {
+  const { x, y, n } = diabetes();
+  const fold = Int32Array.from({ length: n }, (_, i) => i % 4);
+  const buckets = bucketMoments(x, P, y, fold, 4);
+  const [all] = bucketMoments(x, P, y, new Int32Array(n), 1);
+  const alphas = alphaGrid(gramProblem(all), lasso(), { count: 25 });
+  const fromSummaries = sparsePath(gramProblem(removeMoments(all, buckets[3])), lasso(), {
+    alphas,
+    tolerance: 1e-12,
+  });
+  const rows = Array.from({ length: n }, (_, i) => i).filter((i) => fold[i] !== 3);
+  const fromRows = sparsePathFromRows(
+    Float64Array.from(rows.flatMap((i) => Array.from(x.subarray(i * P, i * P + P)))),
+    P,
+    Float64Array.from(rows, (i) => y[i]),
+    lasso(),
+    { alphas, tolerance: 1e-12 },
+  );
+  fromSummaries.solutions.forEach((s, k) => {
+    assert.ok(maxAbsDiff(s.coefficients, fromRows.solutions[k].coefficients) < 1e-8);
+  });
+});
+
+Deno.test("ρ → 0 is ridge with λ_ridge = N·α (documented conversion; ridge engine as reference)", () => {
+  const { x, y, n } = diabetes();
+  const [m] = bucketMoments(x, P, y, new Int32Array(n), 1);
+  const mix = 1e-12;
+  const spectrum = decompose(m, {
+    gamma: new Float64Array(P).fill(1),
+    standardize: true,
+    intercept: true,
+  });
+  for (const alpha of [0.01, 0.3, 5]) {
+    const s = sparsePath(gramProblem(m), elasticNet({ mix }), { alphas: [alpha], tolerance: 1e-13 })
+      .solutions[0];
+    const ridge = solutionAt(spectrum, n * alpha * (1 - mix));
+    s.coefficients.forEach((w, q) => assert.ok(Math.abs(w / ridge.w[q] - 1) < 1e-8, `α ${alpha}`));
+    assert.ok(Math.abs(s.intercept / ridge.intercept - 1) < 1e-10);
+  }
+});
+
+Deno.test("a pass limit too small is reported as not converged, not hidden", () => {
+  const { x, y } = diabetes();
+  const path = sparsePathFromRows(x, P, y, lasso(), { alphas: [0.05], maxPasses: 2 });
+  const s = path.solutions[0];
+  assert.equal(s.converged, false);
+  assert.ok(s.violation > path.tolerance);
+  assert.equal(s.passes, 2);
+});
+
+Deno.test("results are deterministic and frozen; the caller's summary is not changed", () => {
+  const { x, y, n } = diabetes();
+  const [m] = bucketMoments(x, P, y, new Int32Array(n), 1);
+  const copy: Moments = { ...m, mean: m.mean.slice(), cross: m.cross.slice() };
+  const mine: SparsePenalty = { kind: "elastic-net", mix: 0.4 };
+  const a = sparsePath(gramProblem(m), mine, { validation: m });
+  const b = sparsePath(gramProblem(m), elasticNet({ mix: 0.4 }), { validation: m });
+  assert.deepEqual(m, copy);
+  assert.ok(!Object.isFrozen(mine));
+  assert.equal(JSON.stringify(a), JSON.stringify(b));
+  assert.ok(Object.isFrozen(a) && Object.isFrozen(a.solutions[5].coefficients));
+});
+
+Deno.test("bad input gets a clear CurbfitError with a stable code", () => {
+  const { x, y, n } = diabetes();
+  const [m] = bucketMoments(x, P, y, new Int32Array(n), 1);
+  const g = gramProblem(m);
+  const fails = (code: string, f: () => unknown, words: RegExp) =>
+    assert.throws(f, (e) => e instanceof CurbfitError && e.code === code && words.test(e.message));
+  fails("BAD_OPTION", () => elasticNet({ mix: 0 }), /mix is 0.*ridge\(\)/);
+  fails("BAD_OPTION", () => elasticNet({ mix: 1.5 }), /option penalty.mix/);
+  fails("BAD_OPTION", () => sparsePath(g, { kind: "lasso", mix: 0.5 }), /lasso is mix 1/);
+  fails("BAD_OPTION", () => alphaGrid(g, lasso(), []), /empty/);
+  fails("BAD_OPTION", () => alphaGrid(g, lasso(), [1, 0]), /alphas\[1\] is 0/);
+  fails("BAD_OPTION", () => alphaGrid(g, lasso(), { count: 1 }), /alphas.count/);
+  fails("BAD_OPTION", () => alphaGrid(g, lasso(), { ratio: 1 }), /alphas.ratio/);
+  fails("BAD_OPTION", () => sparsePath(g, lasso(), { tolerance: 0 }), /tolerance is 0/);
+  fails("BAD_OPTION", () => sparsePath(g, lasso(), { maxPasses: 0.5 }), /maxPasses/);
+  fails("BAD_OPTION", () => sparsePathFromRows(x, 3, y, lasso()), /not 442 rows/);
+  const [v2] = bucketMoments(Float64Array.of(1, 2), 1, Float64Array.of(1, 2), new Int32Array(2), 1);
+  fails("BAD_OPTION", () => sparsePath(g, lasso(), { validation: v2 }), /1 design columns/);
+  const constant = Float64Array.from(x, (v, i) => (i % P === 4 ? 7 : v));
+  fails(
+    "CONSTANT_COLUMN",
+    () => sparsePathFromRows(constant, P, y, lasso(), { names: NAMES, where: "rows of fold 2" }),
+    /column "s1".*design column s1 is constant over the rows of fold 2/,
+  );
+  fails(
+    "CONSTANT_TARGET",
+    () => sparsePathFromRows(x, P, new Float64Array(n).fill(3), lasso()),
+    /constant/,
+  );
+  fails(
+    "TOO_FEW_ROWS",
+    () => sparsePathFromRows(x.slice(0, P), P, y.slice(0, 1), lasso()),
+    /1 training rows/,
+  );
+  const bad = x.slice();
+  bad[17] = NaN;
+  fails("NOT_FINITE", () => sparsePathFromRows(bad, P, y, lasso()), /not a finite number/);
+  const orthogonal = {
+    ...m,
+    cross: m.cross.map((v, k) => (k % (P + 1) === P && k < P * (P + 1) ? 0 : v)),
+  };
+  fails("BAD_OPTION", () => alphaGrid(gramProblem(orthogonal), lasso()), /no design column/);
+  assert.equal(alphaMax(gramProblem(orthogonal), lasso()), 0);
+});
