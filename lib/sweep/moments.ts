@@ -43,35 +43,66 @@ export function bucketMoments(
 ): Moments[] {
   const d = p + 1;
   const n = y.length;
-  const out = Array.from({ length: buckets }, () => emptyMoments(d));
   const counts = new Float64Array(buckets);
+  const means = Array.from({ length: buckets }, () => new Float64Array(d));
   for (let i = 0; i < n; i++) {
     const b = bucket[i];
     if (b < 0) continue;
     counts[b]++;
-    const mean = out[b].mean;
+    const mean = means[b];
     for (let j = 0; j < p; j++) mean[j] += x[i * p + j];
     mean[p] += y[i];
   }
-  out.forEach((m, b) => m.mean.forEach((s, j) => (m.mean[j] = counts[b] > 0 ? s / counts[b] : 0)));
-  const v = new Float64Array(d);
-  for (let i = 0; i < n; i++) {
+  means.forEach((m, b) => m.forEach((s, j) => (m[j] = counts[b] > 0 ? s / counts[b] : 0)));
+  const crosses = centeredProducts(x, p, y, bucket, means);
+  return crosses.map((cross, b) => {
+    mirrorUpper(cross, d);
+    return { count: counts[b], d, mean: means[b], cross };
+  });
+}
+
+/** Rows staged per bucket before their products are added (a block of a rank-B update). */
+const BLOCK = 32;
+
+/**
+ * Upper triangles of Σ (v − mean)(v − mean)ᵀ per bucket. Centered rows are staged column-major
+ * in blocks of BLOCK rows per bucket, then added as dot products of length BLOCK: the same sums
+ * in a cache-friendly order (about twice as fast as row-at-a-time outer products).
+ */
+function centeredProducts(
+  x: Float64Array,
+  p: number,
+  y: Float64Array,
+  bucket: Int32Array,
+  means: readonly Float64Array[],
+): Float64Array[] {
+  const d = p + 1;
+  const crosses = means.map(() => new Float64Array(d * d));
+  const stage = means.map(() => new Float64Array(d * BLOCK));
+  const fill = new Int32Array(means.length);
+  const flush = (b: number) => {
+    const s = stage[b], c = crosses[b], m = fill[b];
+    for (let j = 0; j < d; j++) {
+      const oj = j * BLOCK;
+      for (let l = j; l < d; l++) {
+        const ol = l * BLOCK;
+        let acc = 0;
+        for (let t = 0; t < m; t++) acc += s[oj + t] * s[ol + t];
+        c[j * d + l] += acc;
+      }
+    }
+    fill[b] = 0;
+  };
+  for (let i = 0; i < y.length; i++) {
     const b = bucket[i];
     if (b < 0) continue;
-    const { mean, cross } = out[b];
-    for (let j = 0; j < p; j++) v[j] = x[i * p + j] - mean[j];
-    v[p] = y[i] - mean[p];
-    for (let j = 0; j < d; j++) {
-      const vj = v[j];
-      if (vj === 0) continue;
-      const row = j * d;
-      for (let l = j; l < d; l++) cross[row + l] += vj * v[l];
-    }
+    const s = stage[b], mean = means[b], t = fill[b];
+    for (let j = 0; j < p; j++) s[j * BLOCK + t] = x[i * p + j] - mean[j];
+    s[p * BLOCK + t] = y[i] - mean[p];
+    if (++fill[b] === BLOCK) flush(b);
   }
-  return out.map((m, b) => {
-    mirrorUpper(m.cross, d);
-    return { ...m, count: counts[b] };
-  });
+  for (let b = 0; b < means.length; b++) if (fill[b] > 0) flush(b);
+  return crosses;
 }
 
 /** Summary of the union of disjoint row sets. */
