@@ -15,7 +15,6 @@
  *
  * @module
  */
-import { CurbfitError } from "../errors/error.ts";
 import { deepFreeze } from "../common/freeze.ts";
 import type { Design, LearnedTerm } from "../design/types.ts";
 import { buildDesign, learnTerms } from "../design/mod.ts";
@@ -26,11 +25,11 @@ import { type Fit, fitPrepared, type FitSpec, prepare, type TableInput } from ".
 import { penaltyWeights, ridge } from "../fit/penalty.ts";
 import { bucketMoments, type Moments, removeMoments } from "./moments.ts";
 import { basisChange, changeMoments } from "./basis.ts";
-import { decompose, heldOutErrors, solutionAt, type Spectrum } from "./spectrum.ts";
-import { type LambdaGrid, lambdaGrid } from "./grid.ts";
+import type { LambdaGrid } from "./grid.ts";
 import { type Choice, choose, type SelectionRule } from "./select.ts";
 import { type FoldRequest, planFolds } from "./folds.ts";
-import { generalizedCrossValidation, leaveOneOutErrors } from "./loo.ts";
+import { leaveOneOutErrors } from "./loo.ts";
+import { crossValidate, curvePoints, type FoldSummarySource } from "./engine.ts";
 import {
   type SweepProvenance,
   sweepProvenance,
@@ -142,7 +141,7 @@ export function sweepPrepared(
   terms: readonly LearnedTerm[],
   design: Design,
   y: Float64Array,
-  source: SweepSource,
+  data: SweepSource,
 ): SweepResult {
   const options = {
     gamma: penaltyWeights(spec.penalty ?? ridge(), design.orders),
@@ -152,53 +151,18 @@ export function sweepPrepared(
   const report = spec.progress ?? (() => {});
   const { n, p, hi } = design.block;
   const all = bucketMoments(hi, p, y, new Int32Array(n), 1)[0];
-  const full = decompose(all, options);
-  checkScales(full, design.names, "all rows");
-  const lambdas = lambdaGrid(spec.lambdas, full.e);
-  const total = plan.repeats * plan.k;
-  const foldMse: Float64Array[] = [];
-  const foldTrain: Float64Array[] = [];
-  for (let r = 0; r < plan.repeats; r++) {
-    report({ stage: "summaries", done: r, total: plan.repeats });
-    const buckets = bucketMoments(hi, p, y, bucketOf(plan.assignment[r], plan.k), plan.k + 1);
-    for (let f = 0; f < plan.k; f++) {
-      const { train, validation, where } = foldSummaries(
-        table,
-        spec,
-        terms,
-        all,
-        buckets,
-        plan,
-        r,
-        f,
-      );
-      const sp = decompose(train, options);
-      checkScales(sp, design.names, where);
-      foldMse.push(heldOutErrors(sp, validation, lambdas));
-      foldTrain.push(Float64Array.from(lambdas, (l) => solutionAt(sp, l).rss / train.count));
-      report({ stage: "folds", done: r * plan.k + f + 1, total });
-    }
-  }
+  const source: FoldSummarySource = {
+    all,
+    repeats: plan.repeats,
+    k: plan.k,
+    buckets: (r) => bucketMoments(hi, p, y, bucketOf(plan.assignment[r], plan.k), plan.k + 1),
+    fold: (r, f, buckets) => foldSummaries(table, spec, terms, all, buckets, plan, r, f),
+  };
+  const cv = crossValidate(source, design.names, options, spec.lambdas, report);
   const closed = wantClosedForm(spec.closedForm, n);
-  const loo = closed ? leaveOneOutErrors(full, hi, y, lambdas) : null;
-  const gcv = generalizedCrossValidation(full, lambdas);
-  const curve = lambdas.map((lambda, l) => {
-    const errs = foldMse.map((e) => e[l]);
-    const sol = solutionAt(full, lambda);
-    return {
-      lambda,
-      cvMean: mean(errs),
-      cvSe: standardError(errs, plan.k),
-      foldMse: errs,
-      trainMse: sol.rss / n,
-      foldTrainMse: mean(foldTrain.map((e) => e[l])),
-      df: sol.df,
-      budget: sol.budget,
-      gcv: gcv[l],
-      loo: loo ? loo[l] : null,
-      path: Array.from(sol.w, (w, q) => w * full.scales[q]),
-    };
-  });
+  const loo = closed ? leaveOneOutErrors(cv.full, hi, y, cv.lambdas) : null;
+  const curve = curvePoints(cv, plan.k, loo);
+  const lambdas = cv.lambdas;
   const means = curve.map((c) => c.cvMean);
   const ses = curve.map((c) => c.cvSe);
   const minimum = choose("min", lambdas, means, ses);
@@ -220,7 +184,7 @@ export function sweepPrepared(
     chosen,
     notes: edgeNotes(minimum, lambdas.length, spec.lambdas),
     fit: model,
-    provenance: sweepProvenance(source, spec.lambdas),
+    provenance: sweepProvenance(data, spec.lambdas),
   });
 }
 
@@ -260,19 +224,6 @@ function foldSummaries(
   return { train, validation, where };
 }
 
-function checkScales(sp: Spectrum, names: readonly string[], where: string): void {
-  sp.scales.forEach((s, q) => {
-    if (!(s > 0) || !Number.isFinite(s)) {
-      throw new CurbfitError(
-        "CONSTANT_COLUMN",
-        `design column ${names[q]} is constant over the ${where}, so it cannot be standardized`,
-        "Use grouped or more folds so every level and value range appears in training, or drop the term",
-        { option: "folds" },
-      );
-    }
-  });
-}
-
 function wantClosedForm(option: boolean | "auto" | undefined, n: number): boolean {
   if (option === undefined || option === "auto") return n <= CLOSED_FORM_DEFAULT_ROWS;
   return option;
@@ -296,16 +247,4 @@ function edgeNotes(minimum: Choice, count: number, grid: LambdaGrid | undefined)
     ];
   }
   return [];
-}
-
-function mean(v: readonly number[]): number {
-  return v.reduce((s, x) => s + x, 0) / v.length;
-}
-
-/** SD (divisor m − 1) of the m fold errors, over √K. NaN for a single fold. */
-function standardError(v: readonly number[], k: number): number {
-  if (v.length < 2) return NaN;
-  const m = mean(v);
-  const ss = v.reduce((s, x) => s + (x - m) ** 2, 0);
-  return Math.sqrt(ss / (v.length - 1)) / Math.sqrt(k);
 }

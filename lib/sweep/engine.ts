@@ -1,0 +1,152 @@
+/**
+ * The cross-validation engine, from summaries alone. Whatever holds the rows — memory, a file
+ * stream, a SQL engine — supplies per-fold summaries (lib/sweep/moments.ts); this module
+ * decomposes each training fold once, scores every λ on the held-out summary, and assembles the
+ * curve. It never sees a row.
+ *
+ * @module
+ */
+import { CurbfitError } from "../errors/error.ts";
+import type { Moments } from "./moments.ts";
+import {
+  decompose,
+  heldOutErrors,
+  solutionAt,
+  type Spectrum,
+  type SpectrumOptions,
+} from "./spectrum.ts";
+import { type LambdaGrid, lambdaGrid } from "./grid.ts";
+import { generalizedCrossValidation } from "./loo.ts";
+import type { CurvePoint, ProgressListener } from "./sweep.ts";
+
+/** Per-fold summaries of one data set under one fold plan. */
+export interface FoldSummarySource {
+  /** All rows, in the base basis (terms learned on all rows). */
+  readonly all: Moments;
+  readonly repeats: number;
+  readonly k: number;
+  /** Summaries of folds 0..k−1 of repeat r, plus never-validated rows at index k. */
+  buckets(r: number): readonly Moments[];
+  /** Training and held-out summaries of fold f, in the basis learned on its training rows. */
+  fold(
+    r: number,
+    f: number,
+    buckets: readonly Moments[],
+  ): { train: Moments; validation: Moments; where: string };
+}
+
+/** Fold errors for every λ, and the all-rows spectrum. */
+export interface CrossValidation {
+  readonly lambdas: readonly number[];
+  readonly full: Spectrum;
+  /** One array per fold (repeat-major), one entry per λ. */
+  readonly foldMse: readonly Float64Array[];
+  readonly foldTrainMse: readonly Float64Array[];
+}
+
+/**
+ * Runs every fold of every repeat through the ridge spectrum and scores the λ grid.
+ *
+ * @example
+ * ```ts
+ * import { bucketMoments, removeMoments } from "./moments.ts";
+ * import { crossValidate } from "./engine.ts";
+ * const x = Float64Array.of(0, 1, 2, 3, 4, 5), y = Float64Array.of(1, 2.9, 5.2, 7, 8.8, 11.1);
+ * const fold = Int32Array.of(0, 1, 0, 1, 0, 1);
+ * const all = bucketMoments(x, 1, y, new Int32Array(6), 1)[0];
+ * const cv = crossValidate({
+ *   all, repeats: 1, k: 2,
+ *   buckets: () => bucketMoments(x, 1, y, fold, 3),
+ *   fold: (_r, f, b) => ({ train: removeMoments(all, b[f]), validation: b[f], where: `fold ${f + 1}` }),
+ * }, ["x"], { gamma: Float64Array.of(1), standardize: true, intercept: true }, [0.1, 1], () => {});
+ * console.log(cv.foldMse.length); // 2
+ * ```
+ */
+export function crossValidate(
+  source: FoldSummarySource,
+  names: readonly string[],
+  options: SpectrumOptions,
+  grid: LambdaGrid | undefined,
+  report: ProgressListener,
+): CrossValidation {
+  const full = decompose(source.all, options);
+  checkScales(full, names, "all rows");
+  const lambdas = lambdaGrid(grid, full.e);
+  const total = source.repeats * source.k;
+  const foldMse: Float64Array[] = [];
+  const foldTrainMse: Float64Array[] = [];
+  for (let r = 0; r < source.repeats; r++) {
+    report({ stage: "summaries", done: r, total: source.repeats });
+    const buckets = source.buckets(r);
+    for (let f = 0; f < source.k; f++) {
+      const { train, validation, where } = source.fold(r, f, buckets);
+      const sp = decompose(train, options);
+      checkScales(sp, names, where);
+      foldMse.push(heldOutErrors(sp, validation, lambdas));
+      foldTrainMse.push(Float64Array.from(lambdas, (l) => solutionAt(sp, l).rss / train.count));
+      report({ stage: "folds", done: r * source.k + f + 1, total });
+    }
+  }
+  return { lambdas, full, foldMse, foldTrainMse };
+}
+
+/**
+ * The curve: per λ the fold errors, their mean and SE (SD/√K), all-rows training MSE, df, C,
+ * GCV, closed-form LOO when given, and the standardized coefficient path.
+ *
+ * @example
+ * ```ts
+ * import { curvePoints } from "./engine.ts";
+ * // given `cv` from crossValidate with K folds:  curvePoints(cv, K, null)
+ * ```
+ */
+export function curvePoints(
+  cv: CrossValidation,
+  k: number,
+  loo: Float64Array | null,
+): CurvePoint[] {
+  const { full, lambdas } = cv;
+  const gcv = generalizedCrossValidation(full, lambdas);
+  return lambdas.map((lambda, l) => {
+    const errs = cv.foldMse.map((e) => e[l]);
+    const sol = solutionAt(full, lambda);
+    return {
+      lambda,
+      cvMean: mean(errs),
+      cvSe: standardError(errs, k),
+      foldMse: errs,
+      trainMse: sol.rss / full.count,
+      foldTrainMse: mean(cv.foldTrainMse.map((e) => e[l])),
+      df: sol.df,
+      budget: sol.budget,
+      gcv: gcv[l],
+      loo: loo ? loo[l] : null,
+      path: Array.from(sol.w, (w, q) => w * full.scales[q]),
+    };
+  });
+}
+
+function checkScales(sp: Spectrum, names: readonly string[], where: string): void {
+  sp.scales.forEach((s, q) => {
+    if (!(s > 0) || !Number.isFinite(s)) {
+      throw new CurbfitError(
+        "CONSTANT_COLUMN",
+        `design column ${names[q]} is constant over the ${where}, so it cannot be standardized`,
+        "Use grouped or more folds so every level and value range appears in training, or drop the term",
+        { option: "folds" },
+      );
+    }
+  });
+}
+
+function mean(v: readonly number[]): number {
+  return v.reduce((s, x) => s + x, 0) / v.length;
+}
+
+/** SD (divisor m − 1) of the m fold errors, over √K. NaN for a single fold. */
+function standardError(v: readonly number[], k: number): number {
+  if (v.length < 2) return NaN;
+  const m = mean(v);
+  const ss = v.reduce((s, x) => s + (x - m) ** 2, 0);
+  return Math.sqrt(ss / (v.length - 1)) / Math.sqrt(k);
+}
