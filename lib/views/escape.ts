@@ -6,10 +6,10 @@
  * @module
  */
 
-/** C0 and C1 control characters, DEL included. */
-const CONTROL = /[\u0000-\u001f\u007f-\u009f]/g;
+/** Control characters (Unicode category Cc: U+0000–U+001F, U+007F–U+009F). */
+const CONTROL = /\p{Cc}/gu;
 /** The same set without tab, line feed and carriage return (whitespace HTML keeps as text). */
-const CONTROL_BUT_WHITESPACE = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f-\u009f]/g;
+const CONTROL_BUT_WHITESPACE = /(?![\t\n\r])\p{Cc}/gu;
 
 const NAMED_ESCAPES: Readonly<Record<string, string>> = { "\n": "\\n", "\r": "\\r", "\t": "\\t" };
 

@@ -63,7 +63,13 @@ function loadLibraries(): Promise<Libraries> {
     } finally {
       node.noDeprecation = saved;
     }
-  })();
+  })().catch((e) => {
+    libraries = undefined; // let a later call try again
+    throw renderFailed(
+      `vega or vega-lite could not be loaded: ${messageOf(e)}`,
+      "make sure the npm packages in deno.json are reachable or already cached (deno install)",
+    );
+  });
   return libraries;
 }
 
@@ -156,14 +162,13 @@ export async function renderSvg(spec: VegaLiteSpec, options: RenderOptions = {})
   }
 }
 
-function renderFailed(detail: string): CurbfitError {
-  return new CurbfitError(
-    "RENDER_FAILED",
-    `the chart could not be drawn: ${detail}`,
-    "check the chart spec against the Vega-Lite v5 schema (test/vl_assert.ts does this); " +
-      "data must be inline values",
-    { option: "spec" },
-  );
+const SPEC_HINT = "check the chart spec against the Vega-Lite v5 schema " +
+  "(test/vl_assert.ts does this); data must be inline values";
+
+function renderFailed(detail: string, hint = SPEC_HINT): CurbfitError {
+  return new CurbfitError("RENDER_FAILED", `the chart could not be drawn: ${detail}`, hint, {
+    option: "spec",
+  });
 }
 
 /** 32-bit FNV-1a over UTF-16 code units, as 8 hex digits (a name, not a security hash). */
