@@ -54,6 +54,7 @@ export {
   type Progress,
   type ProgressListener,
   sweep,
+  sweepAsync,
   type SweepResult,
   type SweepSpec,
 } from "./lib/sweep/sweep.ts";
@@ -61,6 +62,7 @@ export {
   type Candidate,
   type CandidateOutcome,
   compare,
+  compareAsync,
   type CompareOptions,
   type ComparisonResult,
   type PairedDifference,
@@ -108,3 +110,22 @@ export {
   type VerifyEntry,
   type VerifyReport,
 } from "./lib/record/mod.ts";
+export {
+  ApiCall,
+  curb,
+  type CurbPlan,
+  curbPlan,
+  type CurbProgram,
+  type CurbResult,
+  equivalentCall,
+  MagicError,
+  type RunOptions,
+  type Spot,
+} from "./lib/magic/mod.ts";
+export {
+  type Bundle,
+  type DisplaySink,
+  type ProgressDisplay,
+  progressDisplay,
+  type ProgressOptions,
+} from "./lib/kernel/progress.ts";

@@ -94,3 +94,24 @@ Deno.test("progress is reported for every fold and the refit", () => {
   ]);
   assert.equal(seen.at(-1), "refit:1/1");
 });
+
+Deno.test("sweepAsync and compareAsync yield to the event loop between folds and give identical numbers", async () => {
+  const { sweepAsync, compareAsync } = await import("../mod.ts");
+  const cols = syntheticColumns(12, 60, 1);
+  const spec = { target: "y", terms: [legendre("x", 6)], folds: { k: 4, seed: 5 } };
+  let ticks = 0;
+  const timer = setInterval(() => ticks++, 0);
+  const a = await sweepAsync(cols, spec);
+  clearInterval(timer);
+  assert.ok(ticks >= 2, `timer callbacks ran during the sweep: ${ticks}`);
+  assert.deepEqual(a.curve, sweep(cols, spec).curve);
+  const candidates = [
+    { name: "line", terms: [column("x")] },
+    { name: "curve", terms: [legendre("x", 6)] },
+  ];
+  const options = { target: "y", folds: { k: 4, seed: 5 } };
+  assert.deepEqual(
+    (await compareAsync(cols, candidates, options)).verdict,
+    compare(cols, candidates, options).verdict,
+  );
+});

@@ -10,6 +10,7 @@
  */
 import { CurbfitError } from "../errors/error.ts";
 import { deepFreeze } from "../common/freeze.ts";
+import { runSteps, runStepsAsync, type Steps } from "../common/steps.ts";
 import type { Table } from "../table/types.ts";
 import { toTable } from "../table/mod.ts";
 import type { FoldPlan } from "../folds/mod.ts";
@@ -86,11 +87,41 @@ export function compare(
   candidates: readonly Candidate[],
   options: CompareOptions,
 ): ComparisonResult {
+  return runSteps(compareSteps(data, candidates, options));
+}
+
+/**
+ * The same comparison, pausing on the event loop after each fold so progress reports can reach a
+ * notebook while it runs. Numbers are identical to `compare`.
+ *
+ * @example
+ * ```ts
+ * import { column, compareAsync } from "../../mod.ts";
+ * const data = { x: [1, 2, 3, 4, 5, 6], z: [2, 1, 2, 1, 2, 1], y: [1.2, 1.9, 3.2, 3.8, 5.1, 6.2] };
+ * const c = await compareAsync(data, [
+ *   { name: "x", terms: [column("x")] }, { name: "z", terms: [column("z")] },
+ * ], { target: "y", folds: { k: 3, seed: 1 } });
+ * ```
+ */
+export function compareAsync(
+  data: Table | TableInput,
+  candidates: readonly Candidate[],
+  options: CompareOptions,
+): Promise<ComparisonResult> {
+  return runStepsAsync(compareSteps(data, candidates, options));
+}
+
+function* compareSteps(
+  data: Table | TableInput,
+  candidates: readonly Candidate[],
+  options: CompareOptions,
+): Steps<ComparisonResult> {
   checkCandidates(candidates);
   const table = toTable(data);
   const plan = planFolds(table, options.folds);
   const source = sweepSource(table, options.target, candidates.map((c) => c.terms), options.folds);
-  const sweeps = candidates.map((c) => {
+  const sweeps: SweepResult[] = [];
+  for (const c of candidates) {
     const spec: SweepSpec = {
       ...c,
       target: options.target,
@@ -98,8 +129,8 @@ export function compare(
       progress: options.progress && ((p) => options.progress!({ ...p, candidate: c.name })),
     };
     const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
-    return sweepPrepared(table, spec, plan, terms, design, y, source);
-  });
+    sweeps.push(yield* sweepPrepared(table, spec, plan, terms, design, y, source));
+  }
   const outcomes = sweeps.map((s, i) => {
     const point = s.curve[s.chosen.index];
     return { name: candidates[i].name, sweep: s, point };

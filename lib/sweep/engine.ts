@@ -18,6 +18,7 @@ import {
 import { type LambdaGrid, lambdaGrid } from "./grid.ts";
 import { generalizedCrossValidation } from "./loo.ts";
 import type { CurvePoint, ProgressListener } from "./sweep.ts";
+import type { Steps } from "../common/steps.ts";
 
 /** Per-fold summaries of one data set under one fold plan. */
 export interface FoldSummarySource {
@@ -45,30 +46,32 @@ export interface CrossValidation {
 }
 
 /**
- * Runs every fold of every repeat through the ridge spectrum and scores the λ grid.
+ * Runs every fold of every repeat through the ridge spectrum and scores the λ grid, yielding
+ * after each fold (drive it with runSteps or runStepsAsync from lib/common/steps.ts).
  *
  * @example
  * ```ts
  * import { bucketMoments, removeMoments } from "./moments.ts";
  * import { crossValidate } from "./engine.ts";
+ * import { runSteps } from "../common/steps.ts";
  * const x = Float64Array.of(0, 1, 2, 3, 4, 5), y = Float64Array.of(1, 2.9, 5.2, 7, 8.8, 11.1);
  * const fold = Int32Array.of(0, 1, 0, 1, 0, 1);
  * const all = bucketMoments(x, 1, y, new Int32Array(6), 1)[0];
- * const cv = crossValidate({
+ * const cv = runSteps(crossValidate({
  *   all, repeats: 1, k: 2,
  *   buckets: () => bucketMoments(x, 1, y, fold, 3),
  *   fold: (_r, f, b) => ({ train: removeMoments(all, b[f]), validation: b[f], where: `fold ${f + 1}` }),
- * }, ["x"], { gamma: Float64Array.of(1), standardize: true, intercept: true }, [0.1, 1], () => {});
+ * }, ["x"], { gamma: Float64Array.of(1), standardize: true, intercept: true }, [0.1, 1], () => {}));
  * console.log(cv.foldMse.length); // 2
  * ```
  */
-export function crossValidate(
+export function* crossValidate(
   source: FoldSummarySource,
   names: readonly string[],
   options: SpectrumOptions,
   grid: LambdaGrid | undefined,
   report: ProgressListener,
-): CrossValidation {
+): Steps<CrossValidation> {
   const full = decompose(source.all, options);
   checkScales(full, names, "all rows");
   const lambdas = lambdaGrid(grid, full.e);
@@ -85,6 +88,7 @@ export function crossValidate(
       foldMse.push(heldOutErrors(sp, validation, lambdas));
       foldTrainMse.push(Float64Array.from(lambdas, (l) => solutionAt(sp, l).rss / train.count));
       report({ stage: "folds", done: r * source.k + f + 1, total });
+      yield;
     }
   }
   return { lambdas, full, foldMse, foldTrainMse };

@@ -16,6 +16,7 @@
  * @module
  */
 import { deepFreeze } from "../common/freeze.ts";
+import { runSteps, runStepsAsync, type Steps } from "../common/steps.ts";
 import type { Design, LearnedTerm } from "../design/types.ts";
 import { buildDesign, learnTerms } from "../design/mod.ts";
 import type { Table } from "../table/types.ts";
@@ -126,15 +127,36 @@ export interface SweepResult {
  * ```
  */
 export function sweep(data: Table | TableInput, spec: SweepSpec): SweepResult {
+  return runSteps(sweepSteps(data, spec));
+}
+
+/**
+ * The same sweep, pausing on the event loop after each fold so progress reports can reach a
+ * notebook while it runs. Numbers are identical to `sweep`.
+ *
+ * @example
+ * ```ts
+ * import { legendre, sweepAsync } from "../../mod.ts";
+ * const x = Array.from({ length: 30 }, (_, i) => i / 29);
+ * const s = await sweepAsync({ x, y: x.map((v) => v * v) }, {
+ *   target: "y", terms: [legendre("x", 4)], folds: { k: 3, seed: 1 }, progress: (p) => console.log(p),
+ * });
+ * ```
+ */
+export function sweepAsync(data: Table | TableInput, spec: SweepSpec): Promise<SweepResult> {
+  return runStepsAsync(sweepSteps(data, spec));
+}
+
+function* sweepSteps(data: Table | TableInput, spec: SweepSpec): Steps<SweepResult> {
   const table = toTable(data);
   const plan = planFolds(table, spec.folds);
   const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
   const source = sweepSource(table, spec.target, [spec.terms], spec.folds);
-  return sweepPrepared(table, spec, plan, terms, design, y, source);
+  return yield* sweepPrepared(table, spec, plan, terms, design, y, source);
 }
 
-/** The sweep on an already prepared design and plan (shared with `compare`). */
-export function sweepPrepared(
+/** The sweep on an already prepared design and plan (shared with `compare`), in steps. */
+export function* sweepPrepared(
   table: Table,
   spec: SweepSpec,
   plan: FoldPlan,
@@ -142,7 +164,7 @@ export function sweepPrepared(
   design: Design,
   y: Float64Array,
   data: SweepSource,
-): SweepResult {
+): Steps<SweepResult> {
   const options = {
     gamma: penaltyWeights(spec.penalty ?? ridge(), design.orders),
     standardize: spec.standardize ?? true,
@@ -158,7 +180,7 @@ export function sweepPrepared(
     buckets: (r) => bucketMoments(hi, p, y, bucketOf(plan.assignment[r], plan.k), plan.k + 1),
     fold: (r, f, buckets) => foldSummaries(table, spec, terms, all, buckets, plan, r, f),
   };
-  const cv = crossValidate(source, design.names, options, spec.lambdas, report);
+  const cv = yield* crossValidate(source, design.names, options, spec.lambdas, report);
   const closed = wantClosedForm(spec.closedForm, n);
   const loo = closed ? leaveOneOutErrors(cv.full, hi, y, cv.lambdas) : null;
   const curve = curvePoints(cv, plan.k, loo);
