@@ -15,17 +15,22 @@ import {
   looksNumeric,
   parseDecimal,
 } from "./values.ts";
-import { type CheckedOptions, type ColumnKind, describeValue } from "./options.ts";
+import type { CheckedOptions, ColumnKind } from "./options.ts";
+import { describeValue } from "./describe.ts";
+import { Blocks } from "./blocks.ts";
 
 /** Marks a missing entry of a category column while loading (numeric columns use NaN). */
 const MISSING_CODE = -1;
 
-/** `a` if it has room for index `used`, else a copy with twice the capacity. */
-function withRoom<A extends Float64Array | Int32Array>(a: A, used: number): A {
-  if (used < a.length) return a;
-  const bigger = new (a.constructor as new (length: number) => A)(Math.max(64, a.length * 2));
-  bigger.set(a);
-  return bigger;
+const newFloats = (n: number) => new Float64Array(n);
+const newInts = (n: number) => new Int32Array(n);
+
+/**
+ * A copy of `s` that does not point into a larger string. V8 may make a substring a view of the
+ * text it was cut from; a level kept as such a view would keep a whole chunk of the input alive.
+ */
+function detached(s: string): string {
+  return (" " + s).slice(1);
 }
 
 /** How a column got its kind, for messages: from `types`, or from a value on some line. */
@@ -45,8 +50,8 @@ class ColumnBuilder {
   #n = 0;
   /** Non-missing values added so far. */
   #present = 0;
-  #values = new Float64Array(0);
-  #codes = new Int32Array(0);
+  #values = new Blocks(newFloats);
+  #codes = new Blocks(newInts);
   /** Level → provisional code (order of first appearance); renumbered in `finish`. */
   readonly #codeOf = new Map<string, number>();
   readonly #levels: string[] = [];
@@ -119,8 +124,8 @@ class ColumnBuilder {
 
   #addNumber(v: number, written: string, line: number): void {
     if (Math.abs(v) >= LARGEST_MAGNITUDE) throw this.#valueError("TOO_LARGE", written, line);
-    this.#values = withRoom(this.#values, this.#n);
-    this.#values[this.#n++] = v;
+    this.#values.push(v);
+    this.#n++;
     this.#present++;
   }
 
@@ -128,22 +133,18 @@ class ColumnBuilder {
     let code = this.#codeOf.get(level);
     if (code === undefined) {
       code = this.#levels.length;
-      this.#codeOf.set(level, code);
-      this.#levels.push(level);
+      const own = detached(level);
+      this.#codeOf.set(own, code);
+      this.#levels.push(own);
     }
-    this.#codes = withRoom(this.#codes, this.#n);
-    this.#codes[this.#n++] = code;
+    this.#codes.push(code);
+    this.#n++;
     this.#present++;
   }
 
   #addMissing(): void {
-    if (this.#kind === "number") {
-      this.#values = withRoom(this.#values, this.#n);
-      this.#values[this.#n] = NaN;
-    } else if (this.#kind === "category") {
-      this.#codes = withRoom(this.#codes, this.#n);
-      this.#codes[this.#n] = MISSING_CODE;
-    }
+    if (this.#kind === "number") this.#values.push(NaN);
+    else if (this.#kind === "category") this.#codes.push(MISSING_CODE);
     this.#n++;
   }
 
@@ -151,24 +152,23 @@ class ColumnBuilder {
   #fix(kind: ColumnKind, written: string, line: number): void {
     this.#kind = kind;
     this.#origin = { fromTypes: false, written, line };
-    const capacity = Math.max(64, this.#n * 2);
-    if (kind === "number") this.#values = new Float64Array(capacity).fill(NaN);
-    else this.#codes = new Int32Array(capacity).fill(MISSING_CODE);
+    for (let i = 0; i < this.#n; i++) {
+      if (kind === "number") this.#values.push(NaN);
+      else this.#codes.push(MISSING_CODE);
+    }
   }
 
   /** The finished column, keeping the rows whose `keep` entry is 1 (all rows when omitted). */
   finish(keep: Uint8Array | undefined): Column {
     if (this.#kind === "number") {
-      const values = this.#values.slice(0, this.#n);
       const column: NumericColumn = {
         kind: "number",
         name: this.name,
-        values: keep === undefined ? values : values.filter((_, i) => keep[i] === 1),
+        values: this.#values.collect(keep),
       };
       return Object.freeze(column);
     }
-    const all = this.#codes.slice(0, this.#n);
-    const codes = keep === undefined ? all : all.filter((_, i) => keep[i] === 1);
+    const codes = this.#codes.collect(keep);
     // Levels of the kept rows only (a level seen only in dropped rows would describe no row),
     // sorted by UTF-16 code units (the default sort order); codes renumbered to match.
     const used = new Uint8Array(this.#levels.length);
@@ -264,7 +264,7 @@ export class TableBuilder {
   readonly #options: CheckedOptions;
   readonly #columns: ColumnBuilder[];
   #rows = 0;
-  #lines = new Int32Array(0);
+  readonly #lines = new Blocks(newInts);
   /** Indices of rows with a missing value. */
   readonly #missingRows: number[] = [];
   #firstMissing: MissingSeen | undefined;
@@ -293,8 +293,8 @@ export class TableBuilder {
       this.#missingRows.push(this.#rows);
       this.#firstMissing ??= { line, column: this.#names[missingAt], written: values[missingAt] };
     }
-    this.#lines = withRoom(this.#lines, this.#rows);
-    this.#lines[this.#rows++] = line;
+    this.#lines.push(line);
+    this.#rows++;
   }
 
   /** Checks the whole table (rows, all-missing columns, missing policy) and freezes it. */
@@ -337,7 +337,7 @@ export class TableBuilder {
         { source },
       );
     }
-    const lines = this.#lines.slice(0, this.#rows);
+    const lines = this.#lines.collect();
     const keep = missingRows.length === 0 ? undefined : keepMask(this.#rows, missingRows);
     const columns = new Map<string, Column>();
     for (const column of this.#columns) columns.set(column.name, column.finish(keep));
@@ -346,7 +346,7 @@ export class TableBuilder {
       names: this.#names,
       columns,
       source,
-      lineOfRow: keep === undefined ? lines : lines.filter((_, i) => keep[i] === 1),
+      lineOfRow: keep === undefined ? lines : this.#lines.collect(keep),
       missing: Object.freeze({
         policy,
         droppedLines: Object.freeze(missingRows.map((row) => lines[row])),

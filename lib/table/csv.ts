@@ -7,7 +7,8 @@
 import { CurbfitError } from "../errors/error.ts";
 import { CsvTokenizer } from "./csv_tokenizer.ts";
 import { TableBuilder } from "./builder.ts";
-import { type CheckedOptions, checkOptions, describeValue, type LoadOptions } from "./options.ts";
+import { type CheckedOptions, checkOptions, type LoadOptions } from "./options.ts";
+import { count, describeValue } from "./describe.ts";
 import type { Table } from "./types.ts";
 
 const BYTE_ORDER_MARK = 0xfeff;
@@ -291,9 +292,4 @@ function workingDir(): string {
 function firstLine(cause: unknown): string {
   const text = cause instanceof Error ? cause.message : String(cause);
   return text.split("\n")[0];
-}
-
-/** "1 field", "3 fields". */
-function count(n: number, noun: string): string {
-  return `${n} ${noun}${n === 1 ? "" : "s"}`;
 }

@@ -6,7 +6,8 @@
  */
 import { CurbfitError } from "../errors/error.ts";
 import { TableBuilder } from "./builder.ts";
-import { checkOptions, describeValue, isPlainObject, type LoadOptions } from "./options.ts";
+import { checkOptions, isPlainObject, type LoadOptions } from "./options.ts";
+import { count, describeValue } from "./describe.ts";
 import type { Table } from "./types.ts";
 
 /** Values a column array may hold (strings are read like CSV fields). */
@@ -128,9 +129,9 @@ export function tableFromColumns(columns: ColumnArrays, options?: LoadOptions): 
     if (array.length !== arrays[0].length) {
       throw new CurbfitError(
         "RAGGED_ROW",
-        `the column has ${array.length} values, but column ${JSON.stringify(names[0])} has ${
-          arrays[0].length
-        }`,
+        `the column has ${count(array.length, "value")}, but column ${
+          JSON.stringify(names[0])
+        } has ${arrays[0].length}`,
         "Give every column the same number of values",
         { source: checked.source, column: names[j] },
       );

@@ -4,6 +4,7 @@
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
+import { describeValue } from "./describe.ts";
 
 /** How a column is stored: `"number"` (Float64Array) or `"category"` (sorted levels + codes). */
 export type ColumnKind = "number" | "category";
@@ -108,19 +109,6 @@ export function checkOptions(
     kinds.set(name, kind);
   }
   return { policy: missing, types: kinds, source };
-}
-
-/** Short description of a value of unknown type, for messages: `"abc"`, `12`, `an array`. */
-export function describeValue(value: unknown): string {
-  if (typeof value === "string") return JSON.stringify(value);
-  if (
-    typeof value === "number" || typeof value === "boolean" || value === null || value === undefined
-  ) {
-    return String(value);
-  }
-  if (typeof value === "bigint") return `${value}n`;
-  if (Array.isArray(value)) return "an array";
-  return `a ${typeof value === "object" ? value.constructor?.name ?? "object" : typeof value}`;
 }
 
 /** True for `{...}` objects (object literals, `Object.create(null)`), not arrays or class instances. */
