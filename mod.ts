@@ -129,3 +129,52 @@ export {
   progressDisplay,
   type ProgressOptions,
 } from "./lib/kernel/progress.ts";
+export { Statement, statement, type StatementOptions } from "./lib/statement/mod.ts";
+export { type CliIo, EXIT, runCli } from "./lib/cli/mod.ts";
+export {
+  FOLD_HASH,
+  type FoldHash,
+  foldHash,
+  foldOfKey,
+  foldsOfKeys,
+  type HashFoldRequest,
+  type HashFolds,
+  type ReadStats,
+  type ScaleProgress,
+  type ScaleProgressListener,
+  type ScaleSweepResult,
+  type ScaleSweepSpec,
+  type StreamFormat,
+  type StreamSource,
+  type StreamSweepResult,
+  type StreamSweepSpec,
+  sweepStream,
+} from "./lib/stream/mod.ts";
+export {
+  duckdbConnection,
+  type DuckDBConnectionLike,
+  type PgClientLike,
+  postgresConnection,
+  type SqlConnection,
+  type SqlQuery,
+  type SqlRows,
+  type SqlSweepResult,
+  type SqlSweepSpec,
+  sweepSql,
+} from "./lib/sql/mod.ts";
+export {
+  chartBundle,
+  type ChartText,
+  coefficientChart,
+  comparisonChart,
+  type ComparisonSource,
+  type CurveSource,
+  fittedCurveChart,
+  type PathSource,
+  residualChart,
+  showChart,
+  type ShownBundle,
+  shrinkagePathChart,
+  validationCurveChart,
+  type ValidationOptions,
+} from "./lib/views/charts/mod.ts";

@@ -1,0 +1,74 @@
+/**
+ * The statement's evidence chart, drawn from the record alone with curbfit's own charts
+ * (lib/views/charts): the validation curve of a sweep, or the comparison chart of a comparison,
+ * each fed the record's CV tables through `recordCurveSource` (lib/views/display.ts).
+ *
+ * @module
+ */
+import type { ModelChoiceRecord } from "../record/mod.ts";
+import type { VegaLiteSpec } from "../views/render.ts";
+import { recordCurveSource } from "../views/display.ts";
+import { comparisonChart, type ComparisonSource } from "../views/charts/comparison.ts";
+import { validationCurveChart } from "../views/charts/validation.ts";
+
+/** A recorded comparison in the shape the comparison chart reads. */
+function comparisonSource(record: ModelChoiceRecord): ComparisonSource {
+  const comparison = record.comparison!;
+  return {
+    target: record.target,
+    folds: record.folds,
+    best: comparison.best,
+    candidates: comparison.candidates.map((c, i) => ({
+      ...c,
+      sweep: recordCurveSource(record.models[i], record),
+    })),
+  };
+}
+
+/**
+ * The evidence chart of a record as a Vega-Lite v5 spec (inline data only): the validation
+ * curve of a sweep, or the comparison chart of a comparison.
+ *
+ * @example
+ * ```ts
+ * import { compare, legendre, recordOf } from "../../mod.ts";
+ * import { evidenceSpec } from "./chart.ts";
+ * const x = Array.from({ length: 30 }, (_, i) => i / 29);
+ * const y = x.map((v, i) => v * v + 0.05 * Math.sin(11 * i));
+ * const c = compare({ x, y }, [
+ *   { name: "line", terms: [legendre("x", 1)], lambdas: [0] },
+ *   { name: "degree 8", terms: [legendre("x", 8)] },
+ * ], { target: "y", folds: { k: 5, seed: 1 } });
+ * const spec = evidenceSpec(recordOf(c));
+ * console.log("vconcat" in spec); // true
+ * ```
+ */
+export function evidenceSpec(record: ModelChoiceRecord): VegaLiteSpec {
+  return record.comparison === null
+    ? validationCurveChart(recordCurveSource(record.models[0], record))
+    : comparisonChart(comparisonSource(record));
+}
+
+/**
+ * The chart's caption in words (every format shows it; Markdown and text show only it).
+ *
+ * @example
+ * ```ts
+ * import { legendre, recordOf, sweep } from "../../mod.ts";
+ * import { evidenceCaption } from "./chart.ts";
+ * const x = Array.from({ length: 30 }, (_, i) => i / 29);
+ * const s = sweep({ x, y: x.map((v, i) => v + 0.1 * Math.cos(7 * i)) }, {
+ *   target: "y", terms: [legendre("x", 6)], folds: { k: 5, seed: 2 },
+ * });
+ * console.log(evidenceCaption(recordOf(s)));
+ * ```
+ */
+export function evidenceCaption(record: ModelChoiceRecord): string {
+  const what = record.comparison === null
+    ? "The validation curve: mean CV error at each λ with a band of ± 1 standard error, the " +
+      "minimum and the chosen λ marked"
+    : "Each candidate's CV error at its chosen λ, the paired per-fold differences to the best, " +
+      "and every candidate's validation curve";
+  return `${what}; redrawn from the record's CV tables. Lower is better on these rows; it is ` +
+    "an estimate, not a promise for new data.";
+}

@@ -1,0 +1,580 @@
+/**
+ * The `curbfit` command line, run as a subprocess with the running Deno and the permission
+ * flags of the deno.json task: exit codes, one-line messages for bad input, verify's exit codes,
+ * compare/fit/report, hostile names, the term syntax, and the README's option list.
+ *
+ * Data: examples/data/orchard.csv (invented demo data) and the bad-input fixtures in
+ * test/fixtures/cli/. These are plumbing tests; the numbers themselves are tested against
+ * outside references elsewhere (sweep, record tests).
+ */
+import assert from "node:assert/strict";
+import { join } from "node:path";
+import {
+  column,
+  compare,
+  indicators,
+  legendre,
+  power,
+  product,
+  readCsv,
+  recordJson,
+  ridge,
+  type Term,
+} from "../mod.ts";
+import { runCli } from "../lib/cli/mod.ts";
+import type { CliIo } from "../lib/cli/run.ts";
+import { COMMANDS } from "../lib/cli/commands.ts";
+import {
+  formatPenalty,
+  formatTerm,
+  parseCandidate,
+  parsePenalty,
+  parseTerm,
+  quoteName,
+} from "../lib/cli/syntax.ts";
+import { argvOf, rerunCommand } from "../lib/cli/rerun.ts";
+import { parseRecord } from "../lib/record/mod.ts";
+import { escapeHtml } from "../lib/views/escape.ts";
+import {
+  assertInertHtml,
+  type Ran,
+  rawMarkdownMarkup,
+  ROOT,
+  runTask,
+} from "./fixtures/cli/helpers.ts";
+
+const F = "test/fixtures/cli";
+const ORCHARD = "examples/data/orchard.csv";
+
+/** Asserts the failure shape every bad input must have: exit 2, one stderr line, no stack. */
+function assertOneLineError(ran: Ran, mentions: readonly string[]): void {
+  const lines = ran.stderr.trimEnd().split("\n");
+  assert.equal(ran.code, 2, `exit code 2 expected, got ${ran.code}; stderr: ${ran.stderr}`);
+  assert.equal(lines.length, 1, `one stderr line expected, got:\n${ran.stderr}`);
+  assert.match(lines[0], /^curbfit( \w+)?: /);
+  assert.doesNotMatch(ran.stderr, /\n\s+at |error: Uncaught|Stack backtrace/);
+  for (const m of mentions) assert.ok(lines[0].includes(m), `stderr should name ${m}: ${lines[0]}`);
+  assert.equal(ran.stdout, "", "nothing on stdout for a failed run");
+}
+
+const SWEEP = [
+  "sweep",
+  "--data",
+  ORCHARD,
+  "--target",
+  "brix",
+  "--term",
+  "legendre:days_since_blossom:4",
+];
+
+/** Bad inputs: arguments and what the one stderr line must name. */
+const BAD: readonly { name: string; args: string[]; mentions: string[] }[] = [
+  {
+    name: "missing file",
+    args: ["sweep", "--data", `${F}/no_such.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["no_such.csv", "does not exist"],
+  },
+  {
+    name: "empty file",
+    args: ["sweep", "--data", `${F}/empty.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["empty.csv", "empty"],
+  },
+  {
+    name: "header only",
+    args: ["sweep", "--data", `${F}/header_only.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["header_only.csv", "no data rows"],
+  },
+  {
+    name: "ragged row",
+    args: ["sweep", "--data", `${F}/ragged.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["ragged.csv", "line 3", "2 fields", "header has 3"],
+  },
+  {
+    name: "open quote",
+    args: ["sweep", "--data", `${F}/open_quote.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["open_quote.csv", "line 2", "never closed"],
+  },
+  {
+    name: "non-numeric value",
+    args: ["sweep", "--data", `${F}/non_numeric.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["non_numeric.csv", "line 4", '"abc" is not a number'],
+  },
+  {
+    name: "duplicate header",
+    args: ["sweep", "--data", `${F}/duplicate_header.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["duplicate_header.csv", "line 1", 'column "x"', "column 1 and column 3"],
+  },
+  {
+    name: "missing value",
+    args: ["sweep", "--data", `${F}/missing_value.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["missing_value.csv", "line 3", "missing"],
+  },
+  {
+    name: "unknown target",
+    args: ["sweep", "--data", ORCHARD, "--target", "sugar", "--term", "column:shade_share"],
+    mentions: ["--target", '"sugar"', "brix"],
+  },
+  {
+    name: "constant target",
+    args: ["sweep", "--data", `${F}/constant_target.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["constant_target.csv", '"y"', "same value"],
+  },
+  {
+    name: "k larger than the rows",
+    args: [...SWEEP, "--folds", "50"],
+    mentions: ["--folds", "50", "36 rows"],
+  },
+  {
+    name: "negative λ",
+    args: [...SWEEP, "--lambdas", "0,-1"],
+    mentions: ["--lambdas", "-1", ">= 0"],
+  },
+  {
+    name: "non-integer seed",
+    args: [...SWEEP, "--seed", "1.5"],
+    mentions: ["--seed", "1.5", "whole number"],
+  },
+  {
+    name: "unknown option",
+    args: [...SWEEP, "--sead", "3"],
+    mentions: ["--sead", "Did you mean --seed?"],
+  },
+  {
+    name: "malformed record JSON",
+    args: ["verify", `${F}/malformed_record.txt`, "--data", ORCHARD],
+    mentions: ["malformed_record.txt", "not valid JSON"],
+  },
+  {
+    name: "record from a newer schema version",
+    args: ["verify", `${F}/newer_record.json`, "--data", ORCHARD],
+    mentions: ["newer_record.json", "record.schema", "version 2", "newer than this curbfit reads"],
+  },
+  {
+    name: "unknown term kind",
+    args: [
+      "sweep",
+      "--data",
+      ORCHARD,
+      "--target",
+      "brix",
+      "--term",
+      "legendr:days_since_blossom:3",
+    ],
+    mentions: ["--term", '"legendr"', "Did you mean legendre?"],
+  },
+  {
+    name: "term reads a missing column",
+    args: ["sweep", "--data", ORCHARD, "--target", "brix", "--term", "column:shade"],
+    mentions: ['"shade"', "shade_share"],
+  },
+  {
+    name: "degree 0",
+    args: [
+      "sweep",
+      "--data",
+      ORCHARD,
+      "--target",
+      "brix",
+      "--term",
+      "legendre:days_since_blossom:0",
+    ],
+    mentions: ["--term", "degree", "0"],
+  },
+  {
+    name: "no --data",
+    args: ["sweep", "--target", "brix", "--term", "column:x"],
+    mentions: ["--data"],
+  },
+  { name: "unknown command", args: ["swep"], mentions: ['"swep"', "sweep"] },
+  { name: "no command", args: [], mentions: ["no command", "help"] },
+  {
+    name: "bad rule",
+    args: [...SWEEP, "--rule", "best"],
+    mentions: ["--rule", '"best"', "one-se"],
+  },
+  {
+    name: "one candidate",
+    args: [
+      "compare",
+      "--data",
+      ORCHARD,
+      "--target",
+      "brix",
+      "--candidate",
+      "name=a; terms=column:shade_share",
+    ],
+    mentions: ["at least two candidates"],
+  },
+  {
+    name: "repeated candidate name",
+    args: [
+      "compare",
+      "--data",
+      ORCHARD,
+      "--target",
+      "brix",
+      "--candidate",
+      "name=a; terms=column:shade_share",
+      "--candidate",
+      "name=a; terms=column:days_since_blossom",
+    ],
+    mentions: ["candidate 2", "repeated name"],
+  },
+  {
+    name: "unknown candidate key",
+    args: [
+      "compare",
+      "--data",
+      ORCHARD,
+      "--target",
+      "brix",
+      "--candidate",
+      "name=a; term=column:x",
+    ],
+    mentions: ["--candidate 1", '"term=column:x"', "Did you mean terms="],
+  },
+  {
+    name: "λ list and automatic grid together",
+    args: [...SWEEP, "--lambdas", "1,2", "--lambda-count", "5"],
+    mentions: ["--lambdas", "--lambda-count"],
+  },
+  { name: "verify without a record", args: ["verify"], mentions: ["record file"] },
+];
+
+for (const bad of BAD) {
+  Deno.test(`cli: bad input — ${bad.name}: exit 2 and one line naming it`, async () => {
+    const out = await Deno.makeTempDir();
+    const args = bad.args.length > 0 && bad.args[0] !== "verify" && bad.args[0] !== "swep"
+      ? [...bad.args, "--out", out]
+      : bad.args;
+    assertOneLineError(await runTask("curbfit", args), bad.mentions);
+    assert.deepEqual([...Deno.readDirSync(out)], [], "a failed run writes nothing");
+    await Deno.remove(out, { recursive: true });
+  });
+}
+
+Deno.test("cli: at least 15 distinct bad inputs are covered", () => {
+  assert.ok(BAD.length >= 15);
+});
+
+Deno.test("cli: sweep writes report, statement and record; verify exits 0, then 1 on an edited record naming the field", async () => {
+  const out = await Deno.makeTempDir();
+  const ran = await runTask("curbfit", [
+    ...SWEEP.slice(0, 5),
+    "--term",
+    "legendre:days_since_blossom:8",
+    "--term",
+    "column:shade_share",
+    "--term",
+    "indicators:watering",
+    "--folds",
+    "6",
+    "--seed",
+    "3",
+    "--rule",
+    "one-se",
+    "--lambda-count",
+    "40",
+    "--out",
+    out,
+  ]);
+  assert.equal(ran.code, 0, ran.stderr);
+  assert.equal(ran.stderr, "", "a short run prints no progress");
+  for (const f of ["report.html", "statement.md", "record.json"]) {
+    assert.ok(ran.stdout.includes(join(out, f)), `stdout names ${f}`);
+  }
+  assert.match(ran.stdout, /Chosen: λ = /);
+  assert.match(ran.stdout, /Caution: /);
+  const recordPath = join(out, "record.json");
+  const record = parseRecord(await Deno.readTextFile(recordPath));
+  assert.equal(record.folds.seed, 3);
+  assert.equal(record.models[0].choice.rule, "one-se");
+  assert.equal(record.models[0].grid.values.length, 40);
+
+  const ok = await runTask("curbfit", ["verify", recordPath, "--data", ORCHARD]);
+  assert.equal(ok.code, 0, ok.stdout + ok.stderr);
+  assert.match(ok.stdout, /^Record check: MATCH/);
+  assert.equal(ok.stderr, "");
+  // Without --data, verify reads the file the record names.
+  assert.equal((await runTask("curbfit", ["verify", recordPath])).code, 0);
+
+  const edited = JSON.parse(await Deno.readTextFile(recordPath));
+  edited.models[0].final.coefficients[2] *= 1.001;
+  const editedPath = join(out, "edited.json");
+  await Deno.writeTextFile(editedPath, JSON.stringify(edited, null, 2));
+  const bad = await runTask("curbfit", ["verify", editedPath, "--data", ORCHARD]);
+  assert.equal(bad.code, 1, bad.stderr);
+  assert.match(bad.stdout, /^Record check: MISMATCH/);
+  assert.ok(bad.stdout.includes("models[0].final.coefficients"), bad.stdout);
+  const err = bad.stderr.trimEnd().split("\n");
+  assert.equal(err.length, 1);
+  assert.ok(err[0].includes("models[0].final.coefficients"), err[0]);
+
+  const report = await runTask("curbfit", ["report", recordPath, "--out", join(out, "again")]);
+  assert.equal(report.code, 0, report.stderr);
+  assert.equal(
+    await Deno.readTextFile(join(out, "again", "statement.md")),
+    await Deno.readTextFile(join(out, "statement.md")),
+    "the statement is rendered from the record alone",
+  );
+  await Deno.remove(out, { recursive: true });
+});
+
+Deno.test("cli: compare from --candidate and from a --candidates file; fit writes no record", async () => {
+  const out = await Deno.makeTempDir();
+  const flags = [
+    "compare",
+    "--data",
+    ORCHARD,
+    "--target",
+    "brix",
+    "--folds",
+    "6",
+    "--seed",
+    "11",
+    "--term",
+    "column:shade_share",
+  ];
+  const inline = await runTask("curbfit", [
+    ...flags,
+    "--candidate",
+    "name=straight line; terms=column:days_since_blossom + column:shade_share; lambdas=0",
+    "--candidate",
+    "name=degree 6, rising; terms=legendre:days_since_blossom:6 + column:shade_share; " +
+    "penalty=ridge:rising:2; lambda-count=30; rule=one-se",
+    "--out",
+    join(out, "a"),
+  ]);
+  assert.equal(inline.code, 0, inline.stderr);
+  const fromFile = await runTask("curbfit", [
+    ...flags,
+    "--candidates",
+    `${F}/candidates.txt`,
+    "--out",
+    join(out, "b"),
+  ]);
+  assert.equal(fromFile.code, 0, fromFile.stderr);
+  const a = await Deno.readTextFile(join(out, "a", "record.json"));
+  assert.equal(
+    a,
+    await Deno.readTextFile(join(out, "b", "record.json")),
+    "same candidates, same bytes",
+  );
+  const record = parseRecord(a);
+  assert.equal(record.kind, "comparison");
+  assert.deepEqual(record.models.map((m) => m.name), ["straight line", "degree 6, rising"]);
+  assert.deepEqual(record.models[1].penalty.weights, "rising");
+  assert.equal(record.models[1].choice.rule, "one-se");
+
+  const fitted = await runTask("curbfit", [
+    "fit",
+    "--data",
+    ORCHARD,
+    "--target",
+    "brix",
+    "--term",
+    "legendre:days_since_blossom:3",
+    "--lambda",
+    "2",
+    "--out",
+    join(out, "fit"),
+  ]);
+  assert.equal(fitted.code, 0, fitted.stderr);
+  assert.match(fitted.stdout, /P3\(days_since_blossom\)/);
+  assert.deepEqual(
+    [...Deno.readDirSync(join(out, "fit"))].map((e) => e.name).sort(),
+    ["report.html", "statement.md"],
+  );
+  await Deno.remove(out, { recursive: true });
+});
+
+Deno.test("cli: help and version exit 0; every command's help lists its options", async () => {
+  const help = await runTask("curbfit", ["help"]);
+  assert.equal(help.code, 0);
+  for (const c of COMMANDS) assert.ok(help.stdout.includes(c.name));
+  const verifyHelp = await runTask("curbfit", ["verify", "--help"]);
+  assert.equal(verifyHelp.code, 0);
+  assert.match(verifyHelp.stdout, /--data FILE/);
+  const version = await runTask("curbfit", ["--version"]);
+  assert.match(version.stdout, /^curbfit \d+\.\d+\.\d+\n$/);
+});
+
+/** Hostile names: HTML, Markdown and script fragments in the header, levels and file name. */
+const HOSTILE_TARGET = 'y<script>alert("t")</script>';
+const HOSTILE_INPUT = "x*bold* [link](https://evil.example/a) `tick`";
+const HOSTILE_GROUP = '<img src=x onerror="alert(2)">';
+const HOSTILE_LEVELS = ["<b>drip</b>", "[rain](javascript:alert(3))", "| pipe | _u_"];
+const HOSTILE_FILE = "<svg onload=alert(4)>_[f](javascript:alert(5))_*.csv";
+
+function hostileCsv(): string {
+  const quote = (s: string) => `"${s.replaceAll('"', '""')}"`;
+  const lines = [[HOSTILE_INPUT, HOSTILE_GROUP, HOSTILE_TARGET].map(quote).join(",")];
+  for (let i = 0; i < 24; i++) {
+    const x = i / 23;
+    const y = Math.sin(3 * x) + 0.3 * (i % 3) + 0.05 * Math.cos(11 * i);
+    lines.push([String(x), quote(HOSTILE_LEVELS[i % 3]), y.toFixed(4)].join(","));
+  }
+  return lines.join("\n") + "\n";
+}
+
+Deno.test("cli: hostile header, levels and file name show as text in report, statement and chart", async () => {
+  const dir = await Deno.makeTempDir();
+  const file = join(dir, HOSTILE_FILE);
+  await Deno.writeTextFile(file, hostileCsv());
+  const out = join(dir, "out");
+  const candidate = (name: string, terms: string) => `name=${quoteName(name)}; terms=${terms}`;
+  const input = `column:${quoteName(HOSTILE_INPUT)}`;
+  const groups = `indicators:${quoteName(HOSTILE_GROUP)}`;
+  const ran = await runTask("curbfit", [
+    "compare",
+    "--data",
+    file,
+    "--target",
+    HOSTILE_TARGET,
+    "--folds",
+    "4",
+    "--seed",
+    "2",
+    "--candidate",
+    candidate("<i>plain</i> *line*", `${input} + ${groups}`),
+    "--candidate",
+    candidate("[curve](javascript:alert(6))", `legendre:${quoteName(HOSTILE_INPUT)}:5 + ${groups}`),
+    "--out",
+    out,
+  ]);
+  assert.equal(ran.code, 0, ran.stderr);
+  const html = await Deno.readTextFile(join(out, "report.html"));
+  assertInertHtml(html);
+  assert.equal(html.match(/<svg/g)?.length, 1, "one inline SVG: the chart");
+  for (const text of [HOSTILE_TARGET, HOSTILE_GROUP, ...HOSTILE_LEVELS, "<i>plain</i> *line*"]) {
+    assert.ok(html.includes(escapeHtml(text)), `HTML shows ${text} escaped`);
+  }
+  const svg = html.slice(html.indexOf("<svg"), html.indexOf("</svg>"));
+  assert.ok(svg.includes("&lt;i&gt;plain&lt;/i&gt;"), "the chart legend escapes candidate names");
+
+  const md = await Deno.readTextFile(join(out, "statement.md"));
+  assert.deepEqual(rawMarkdownMarkup(md), [], "no unescaped markup outside code");
+  assert.ok(md.includes("```\n"), "commands sit in fenced code blocks");
+  await Deno.remove(dir, { recursive: true });
+});
+
+// ---- in-process: the syntax and the reproduce command ------------------------------------------
+
+Deno.test("cli syntax: terms and penalties round-trip through their text form", () => {
+  const terms: Term[] = [
+    legendre("days", 12),
+    legendre("rate: mm/h", 3, { domain: [0, 40] }),
+    power('a "quoted" name', 2),
+    column(" spaced "),
+    indicators("site*zone+x;y=z"),
+    product(legendre("x", 2), indicators("site")),
+    product(product(column("a"), column("b")), column("c")),
+  ];
+  for (const t of terms) {
+    const text = formatTerm(t.spec);
+    assert.deepEqual(parseTerm(text, "--term").spec, t.spec, text);
+  }
+  assert.equal(formatTerm(legendre("days", 12).spec), "legendre:days:12");
+  for (
+    const p of [ridge(), ridge({ weights: "rising", exponent: 2 }), ridge({ weights: [1, 2.5, 4] })]
+  ) {
+    assert.deepEqual(parsePenalty(formatPenalty(p), "--penalty"), p);
+  }
+  const c = parseCandidate('name="a; ""b"""; terms=column:x; lambdas=0', "--candidate 1");
+  assert.equal(c.get("name"), 'a; "b"');
+});
+
+/** An in-process CliIo collecting output. */
+function memoryIo(): CliIo & { stdout: string[]; stderr: string[] } {
+  const stdout: string[] = [];
+  const stderr: string[] = [];
+  return {
+    stdout,
+    stderr,
+    out: (t) => void stdout.push(t),
+    err: (t) => void stderr.push(t),
+    errTerminal: false,
+    now: () => 0,
+  };
+}
+
+Deno.test("cli: the reproduce command a statement shows makes the identical record", async () => {
+  const orchard = await readCsv(join(ROOT, ORCHARD), { source: ORCHARD });
+  const shared = [column("shade_share"), indicators("watering")];
+  const result = compare(orchard, [
+    { name: "degree 9, weight decay", terms: [legendre("days_since_blossom", 9), ...shared] },
+    {
+      name: "degree 2; plain",
+      terms: [legendre("days_since_blossom", 2), ...shared],
+      lambdas: [0, 0.5],
+    },
+    {
+      name: "degree 9, falling γ",
+      terms: [legendre("days_since_blossom", 9), ...shared],
+      penalty: ridge({ weights: "falling", exponent: 1 }),
+      lambdas: { count: 25, min: 1e-3, max: 1e3 },
+      rule: "one-se",
+    },
+  ], { target: "brix", folds: { k: 6, seed: 5, repeats: 2 } });
+  const json = recordJson(result);
+  const line = rerunCommand(parseRecord(json), ORCHARD);
+  assert.ok(line !== null);
+  const out = await Deno.makeTempDir();
+  const io = memoryIo();
+  const cwd = Deno.cwd();
+  Deno.chdir(ROOT);
+  try {
+    assert.equal(
+      await runCli([...argvOf(line), "--out", out, "--quiet"], io),
+      0,
+      io.stderr.join(""),
+    );
+  } finally {
+    Deno.chdir(cwd);
+  }
+  assert.equal(await Deno.readTextFile(join(out, "record.json")), json);
+  await Deno.remove(out, { recursive: true });
+});
+
+Deno.test("cli: progress goes to stderr only for long runs, and clears its terminal line", async () => {
+  const { progressReporter } = await import("../lib/cli/progress.ts");
+  let t = 0;
+  const written: string[] = [];
+  const log = progressReporter({ write: (s) => written.push(s), terminal: false, now: () => t }, [
+    "a",
+    "b",
+  ]);
+  log.listener({ stage: "folds", done: 1, total: 8, candidate: "b" });
+  assert.deepEqual(written, [], "silent during the first second");
+  t = 1500;
+  log.listener({ stage: "folds", done: 2, total: 8, candidate: "b" });
+  t = 2000;
+  log.listener({ stage: "folds", done: 3, total: 8, candidate: "b" });
+  assert.deepEqual(
+    written,
+    ["curbfit: candidate 2 of 2, folds 2 of 8 (1.5 s)\n"],
+    "a log line at most every 5 s",
+  );
+  const tty: string[] = [];
+  t = 0;
+  const term = progressReporter({ write: (s) => tty.push(s), terminal: true, now: () => t }, []);
+  t = 1200;
+  term.listener({ stage: "refit", done: 0, total: 1 });
+  term.done();
+  assert.deepEqual(tty, ["\r\x1b[Kcurbfit: refit 0 of 1 (1.2 s)", "\r\x1b[K"]);
+});
+
+Deno.test("cli: README's Command line section documents every command, option and exit code", async () => {
+  const readme = await Deno.readTextFile(join(ROOT, "README.md"));
+  const start = readme.indexOf("## Command line");
+  assert.ok(start >= 0, "README has a Command line section");
+  const end = readme.indexOf("\n## ", start + 1);
+  const section = readme.slice(start, end === -1 ? undefined : end);
+  for (const c of COMMANDS) {
+    assert.ok(section.includes(`curbfit ${c.name}`), `README shows curbfit ${c.name}`);
+    for (const o of c.options) {
+      assert.ok(section.includes(`--${o.name}`), `README documents --${o.name}`);
+    }
+  }
+  for (const code of ["0", "1", "2"]) assert.match(section, new RegExp(`\\| \`?${code}\`? +\\|`));
+});
