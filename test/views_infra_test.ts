@@ -69,11 +69,21 @@ Deno.test("escapeHtml output decodes back to its input and holds no raw markup",
 
 // CommonMark spec 0.31.2, "Backslash escapes": any ASCII punctuation character may be
 // backslash-escaped and then stands for itself (section name recalled from memory).
-Deno.test("escapeMarkdown backslash-escapes every ASCII punctuation character", () => {
-  assert.equal(escapeMarkdown("a|b *c* [d](e) <f>"), "a\\|b \\*c\\* \\[d\\]\\(e\\) \\<f\\>");
+// CommonMark 0.31 §2.4: a backslash before ASCII punctuation makes it literal; the inline
+// markup starters are ` * _ ~ [ ] ! < > & | and \\ itself; block starters open a line.
+Deno.test("escapeMarkdown escapes every inline markup starter and leading block starter", () => {
+  assert.equal(escapeMarkdown("a|b *c* [d](e) <f>"), "a\\|b \\*c\\* \\[d\\](e) \\<f\\>");
   assert.equal(escapeMarkdown("`x` & _y_"), "\\`x\\` \\& \\_y\\_");
+  assert.equal(escapeMarkdown("# title"), "\\# title");
+  assert.equal(escapeMarkdown("12. item"), "12\\. item");
+  assert.equal(
+    escapeMarkdown("x-y, 1.5 (a)"),
+    "x-y, 1.5 (a)",
+    "harmless punctuation stays readable",
+  );
   assert.equal(escapeMarkdown("two\nlines"), "two\\\\nlines", "one line, break made visible");
   const isPunct = (ch: string) => /[!-/:-@[-`{-~]/.test(ch);
+  const inline = (ch: string) => /[\\`*_~[\]!<>&|]/.test(ch);
   fc.assert(fc.property(fc.string({ unit: "binary" }), (s) => {
     const out = escapeMarkdown(s);
     let plain = "";
@@ -82,12 +92,13 @@ Deno.test("escapeMarkdown backslash-escapes every ASCII punctuation character", 
         assert.ok(isPunct(out[i + 1] ?? ""), `lone backslash in ${JSON.stringify(out)}`);
         plain += out[++i];
       } else {
-        assert.ok(!isPunct(out[i]), `unescaped ${out[i]} in ${JSON.stringify(out)}`);
+        assert.ok(!inline(out[i]), `unescaped ${out[i]} in ${JSON.stringify(out)}`);
         plain += out[i];
       }
     }
     assert.equal(plain, showControls(s), "removing the escapes gives the text back");
     assert.doesNotMatch(out, /\n/);
+    assert.doesNotMatch(out, /^[#+=-]|^\d+[.)]/, "no block starter at the start");
   }));
 });
 

@@ -60,18 +60,23 @@ export function escapeHtml(text: string): string {
 }
 
 /**
- * Escapes text for inline Markdown (a paragraph or a table cell). Every ASCII punctuation
- * character that CommonMark lets a backslash escape is escaped, so emphasis (`*`, `_`), code
- * (backticks), links (`[`, `]`, `(`, `)`), raw HTML (`<`), entities (`&`) and table cells (`|`)
- * all show literally. Control characters, line breaks included, become visible escapes first,
- * so the result is always one line.
+ * Escapes text for inline Markdown (a paragraph or a table cell). Every character that can
+ * start markup inline is backslash-escaped — emphasis and strike (`*`, `_`, `~`), code
+ * (backticks), links and images (`[`, `]`, `!`), raw HTML and autolinks (`<`, `>`), entities
+ * (`&`), table cells (`|`) and the backslash itself — and so is a leading character that could
+ * open a block (`#`, `+`, `-`, `=`, or the `.` or `)` after a leading number). Other punctuation is
+ * left as it is, so the raw Markdown stays readable. Control characters, line breaks
+ * included, become visible escapes first, so the result is always one line.
  *
  * @example
  * ```ts
  * import { escapeMarkdown } from "./escape.ts";
- * escapeMarkdown("a|b *c* [d](e) <f>"); // "a\\|b \\*c\\* \\[d\\]\\(e\\) \\<f\\>"
+ * escapeMarkdown("a|b *c* [d](e) <f>"); // "a\\|b \\*c\\* \\[d\\](e) \\<f\\>"
  * ```
  */
 export function escapeMarkdown(text: string): string {
-  return showControls(text).replace(/[!-/:-@[-`{-~]/g, (ch) => `\\${ch}`);
+  return showControls(text)
+    .replace(/[\\`*_~[\]!<>&|]/g, (ch) => `\\${ch}`)
+    .replace(/^[#+=-]/, (lead) => `\\${lead}`)
+    .replace(/^(\d+)([.)])/, (_, digits, mark) => `${digits}\\${mark}`);
 }
