@@ -26,6 +26,7 @@ import { jacobiSvd } from "../numeric/svd.ts";
 import { DDAccumulator } from "../numeric/dd.ts";
 import { penaltyWeights, ridge, type RidgePenalty } from "./penalty.ts";
 import { columnScales } from "./scale.ts";
+import { fitBundle, JUPYTER_DISPLAY } from "../views/display.ts";
 
 /** In-memory data accepted wherever a Table is: row objects or named column arrays. */
 export type TableInput = RowObjects | ColumnArrays;
@@ -132,6 +133,11 @@ export class Fit {
       values[i] = acc.value();
     }
     return { values, outside: design.outside.filter((o) => o.count > 0) };
+  }
+
+  /** Jupyter display: the standardized coefficients as a chart, and the fit's numbers. */
+  [JUPYTER_DISPLAY](): ReturnType<typeof fitBundle> {
+    return fitBundle(this);
   }
 }
 

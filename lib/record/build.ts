@@ -31,6 +31,7 @@ import {
   ruleDefinition,
 } from "./texts.ts";
 import config from "../../deno.json" with { type: "json" };
+import { recordBundle, withDisplay } from "../views/display.ts";
 
 /** Options of `recordOf`. */
 export interface RecordOptions {
@@ -62,7 +63,7 @@ export function recordOf(
   const sweeps = comparison ? comparison.candidates.map((c) => c.sweep) : [result as SweepResult];
   const names = comparison ? comparison.candidates.map((c) => c.name) : [null];
   const first = sweeps[0];
-  return deepFreeze({
+  return deepFreeze(withDisplay({
     schema: SCHEMA,
     kind: comparison ? "comparison" : "sweep",
     created: createdField(options.createdAt),
@@ -73,7 +74,7 @@ export function recordOf(
     models: sweeps.map((s, i) => modelSection(s, names[i])),
     comparison: comparison ? comparisonSection(comparison) : null,
     cautions: [...CAUTIONS],
-  });
+  }, recordBundle));
 }
 
 function isComparison(result: SweepResult | ComparisonResult): result is ComparisonResult {

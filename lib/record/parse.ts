@@ -11,6 +11,7 @@ import { deepFreeze } from "../common/freeze.ts";
 import type { Json } from "../design/types.ts";
 import type { FoldScheme } from "../folds/mod.ts";
 import type { ColumnSummary } from "./fingerprint.ts";
+import { recordBundle, withDisplay } from "../views/display.ts";
 import {
   type ChoiceSection,
   type ComparisonSection,
@@ -77,7 +78,7 @@ export function parseRecord(input: unknown): ModelChoiceRecord {
     cautions: list(r.cautions, "record.cautions", text),
   };
   checkConsistent(record);
-  return deepFreeze(record);
+  return deepFreeze(withDisplay(record, recordBundle));
 }
 
 function parseText(input: string): unknown {

@@ -6,6 +6,7 @@
  */
 import { deepFreeze } from "../common/freeze.ts";
 import { RELATIVE_TOLERANCE, type Shown, TOLERANCE, type VerifyEntry } from "./checks.ts";
+import { verifyBundle } from "../views/display.ts";
 
 /** What `verify` found. Frozen. */
 export interface VerifyReport {
@@ -19,7 +20,7 @@ export interface VerifyReport {
   readonly notes: readonly string[];
   /** The report as plain text. */
   text(): string;
-  /** Jupyter display: the plain-text rendering. */
+  /** Jupyter display: the plain-text rendering (text/plain), with HTML and Markdown forms. */
   [display: symbol]: unknown;
 }
 
@@ -50,7 +51,7 @@ export function verifyReport(
     failures,
     notes: [...notes],
     text,
-    [JUPYTER_DISPLAY]: () => ({ "text/plain": text() }),
+    [JUPYTER_DISPLAY]: () => verifyBundle({ text, entries, failures, notes }),
   });
 }
 

@@ -19,6 +19,7 @@ import { type ProgressListener, sweepPrepared, type SweepResult, type SweepSpec 
 import { type FoldRequest, planFolds } from "./folds.ts";
 import type { SelectionRule } from "./select.ts";
 import { sweepSource } from "../record/provenance.ts";
+import { comparisonBundle, withDisplay } from "../views/display.ts";
 
 /** A candidate: a name and the parts of a sweep spec that differ between candidates. */
 export interface Candidate extends Omit<SweepSpec, "target" | "folds" | "progress"> {
@@ -56,7 +57,10 @@ export interface CandidateOutcome {
   readonly versusBest: PairedDifference | null;
 }
 
-/** The comparison. Frozen. */
+/**
+ * The comparison. Frozen. In a notebook it shows the comparison chart (a non-enumerable
+ * `[Symbol.for("Jupyter.display")]` method; see lib/views/display.ts).
+ */
 export interface ComparisonResult {
   readonly target: string;
   readonly folds: FoldPlan;
@@ -151,13 +155,13 @@ function* compareSteps(
       ? null
       : pairedDifference(o.point.foldMse, best.point.foldMse, plan.k),
   }));
-  return deepFreeze({
+  return deepFreeze(withDisplay({
     target: options.target,
     folds: plan,
     candidates: results,
     best: best.name,
     verdict: results.map((r) => verdictLine(r, best.name)),
-  });
+  }, comparisonBundle));
 }
 
 /** Mean and SE of per-fold differences a − b. */

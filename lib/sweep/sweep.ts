@@ -37,6 +37,7 @@ import {
   type SweepSource,
   sweepSource,
 } from "../record/provenance.ts";
+import { sweepBundle, withDisplay } from "../views/display.ts";
 
 /** A progress report: `done` of `total` steps of `stage`. */
 export interface Progress {
@@ -91,7 +92,10 @@ export interface CurvePoint {
   readonly path: readonly number[];
 }
 
-/** Everything a sweep found. Frozen. */
+/**
+ * Everything a sweep found. Frozen. In a notebook it shows its validation curve (a
+ * non-enumerable `[Symbol.for("Jupyter.display")]` method; see lib/views/display.ts).
+ */
 export interface SweepResult {
   readonly target: string;
   readonly n: number;
@@ -192,7 +196,7 @@ export function* sweepPrepared(
   report({ stage: "refit", done: 0, total: 1 });
   const model = fitPrepared({ ...spec, lambda: chosen.lambda }, terms, design, y);
   report({ stage: "refit", done: 1, total: 1 });
-  return deepFreeze({
+  return deepFreeze(withDisplay({
     target: spec.target,
     n,
     names: [...design.names],
@@ -207,7 +211,7 @@ export function* sweepPrepared(
     notes: edgeNotes(minimum, lambdas.length, spec.lambdas),
     fit: model,
     provenance: sweepProvenance(data, spec.lambdas),
-  });
+  }, sweepBundle));
 }
 
 /** Fold index per row, with never-validated rows (−1) in the extra bucket k. */

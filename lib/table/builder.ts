@@ -18,6 +18,7 @@ import {
 import type { CheckedOptions, ColumnKind } from "./options.ts";
 import { describeValue } from "./describe.ts";
 import { Blocks } from "./blocks.ts";
+import { tableBundle, withDisplay } from "../views/display.ts";
 
 /** Marks a missing entry of a category column while loading (numeric columns use NaN). */
 const MISSING_CODE = -1;
@@ -352,7 +353,8 @@ export class TableBuilder {
         droppedLines: Object.freeze(missingRows.map((row) => lines[row])),
       }),
     };
-    return Object.freeze(table);
+    // In a notebook a table shows its summary (a non-enumerable display method).
+    return Object.freeze(withDisplay(table, tableBundle));
   }
 }
 
