@@ -1,0 +1,123 @@
+/**
+ * The one thing curbfit asks of a SQL engine: run a parameterized query and return its rows as
+ * arrays. Adapters wrap a connection the caller opened (and closes) — DuckDB's
+ * `@duckdb/node-api` and PostgreSQL's `pg` — by their shape only, so curbfit itself imports
+ * neither driver.
+ *
+ * @module
+ */
+import { DUCKDB, POSTGRESQL, type SqlDialect } from "./dialect.ts";
+import type { SqlQuery } from "./query.ts";
+
+/**
+ * Rows as arrays, and the column names.
+ *
+ * @example
+ * ```ts
+ * import type { SqlRows } from "./connection.ts";
+ * const r: SqlRows = { columns: ["n"], rows: [[3]] };
+ * ```
+ */
+export interface SqlRows {
+  readonly columns: readonly string[];
+  readonly rows: readonly (readonly unknown[])[];
+}
+
+/**
+ * A connection curbfit can query.
+ *
+ * @example
+ * ```ts
+ * import type { SqlConnection } from "./connection.ts";
+ * import { DUCKDB } from "./dialect.ts";
+ * const canned: SqlConnection = { dialect: DUCKDB, run: () => Promise.resolve({ columns: [], rows: [] }) };
+ * ```
+ */
+export interface SqlConnection {
+  readonly dialect: SqlDialect;
+  run(query: SqlQuery): Promise<SqlRows>;
+}
+
+/**
+ * The part of a `@duckdb/node-api` DuckDBConnection that curbfit uses.
+ *
+ * @example
+ * ```ts
+ * import type { DuckDBConnectionLike } from "./connection.ts";
+ * const fake: DuckDBConnectionLike = {
+ *   runAndReadAll: () => Promise.resolve({ columnNames: () => ["a"], getRows: () => [[1]] }),
+ * };
+ * ```
+ */
+export interface DuckDBConnectionLike {
+  runAndReadAll(
+    sql: string,
+    values?: (number | string)[],
+  ): Promise<{ columnNames(): string[]; getRows(): unknown[][] }>;
+}
+
+/**
+ * The part of a `pg` Client or Pool that curbfit uses.
+ *
+ * @example
+ * ```ts
+ * import type { PgClientLike } from "./connection.ts";
+ * const fake: PgClientLike = { query: () => Promise.resolve({ fields: [{ name: "a" }], rows: [[1]] }) };
+ * ```
+ */
+export interface PgClientLike {
+  query(config: { text: string; values: unknown[]; rowMode: "array" }): Promise<{
+    fields: { name: string }[];
+    rows: unknown[][];
+  }>;
+}
+
+/**
+ * Wraps a DuckDB connection (`@duckdb/node-api`; Deno needs --allow-ffi to load it).
+ *
+ * @example
+ * ```ts ignore
+ * import { DuckDBInstance } from "@duckdb/node-api";
+ * import { duckdbConnection } from "./connection.ts";
+ * const db = await DuckDBInstance.create(":memory:");
+ * const sql = duckdbConnection(await db.connect());
+ * console.log((await sql.run({ text: "SELECT 1", params: [] })).rows); // [ [ 1 ] ]
+ * ```
+ */
+export function duckdbConnection(connection: DuckDBConnectionLike): SqlConnection {
+  return {
+    dialect: DUCKDB,
+    async run(query) {
+      const reader = await connection.runAndReadAll(query.text, [...query.params]);
+      return { columns: reader.columnNames(), rows: reader.getRows() };
+    },
+  };
+}
+
+/**
+ * Wraps a PostgreSQL client or pool (`pg`).
+ *
+ * @example
+ * ```ts ignore
+ * import pg from "pg";
+ * import { postgresConnection } from "./connection.ts";
+ * const client = new pg.Client({ host: "127.0.0.1", port: 5432, user: "me", database: "lab" });
+ * await client.connect();
+ * const sql = postgresConnection(client);
+ * console.log((await sql.run({ text: "SELECT $1::int + 1", params: [1] })).rows); // [ [ 2 ] ]
+ * await client.end();
+ * ```
+ */
+export function postgresConnection(client: PgClientLike): SqlConnection {
+  return {
+    dialect: POSTGRESQL,
+    async run(query) {
+      const result = await client.query({
+        text: query.text,
+        values: query.params.map((v) => (typeof v === "number" ? String(v) : v)),
+        rowMode: "array",
+      });
+      return { columns: result.fields.map((f) => f.name), rows: result.rows };
+    },
+  };
+}

@@ -1,0 +1,107 @@
+/**
+ * Per-bucket summaries accumulated chunk by chunk. Each chunk of rows becomes a small table, its
+ * design is built by the learned terms (the same code as the in-memory sweep, so design values
+ * are identical), each bucket's chunk summary is computed two-pass (lib/sweep/moments.ts) and
+ * merged into the running total with Chan, Golub & LeVeque's pairwise formula. Memory: the
+ * totals, buckets · (p+1)(p+2) doubles, plus one chunk — independent of the row count.
+ *
+ * @module
+ */
+import type { LearnedTerm } from "../design/types.ts";
+import { buildDesign } from "../design/mod.ts";
+import type { Column, Table } from "../table/types.ts";
+import { bucketMoments, emptyMoments, mergeMoments, type Moments } from "../sweep/moments.ts";
+
+/**
+ * Rows of numeric columns held until they are summarized.
+ *
+ * @example
+ * ```ts
+ * import type { Chunk } from "./accumulate.ts";
+ * const chunk: Chunk = {
+ *   size: 1, columns: new Map([["y", Float64Array.of(2)]]), bucket: Int32Array.of(0), lines: Int32Array.of(2),
+ * };
+ * ```
+ */
+export interface Chunk {
+  /** Rows filled. */
+  readonly size: number;
+  /** Values by column name (the first `size` entries are rows). */
+  readonly columns: ReadonlyMap<string, Float64Array>;
+  /** Bucket of each row (−1: skip). */
+  readonly bucket: Int32Array;
+  /** Source line of each row, for messages. */
+  readonly lines: Int32Array;
+}
+
+/**
+ * Running per-bucket summaries over the design of `terms` and the target.
+ *
+ * @example
+ * ```ts
+ * import { FoldAccumulator } from "./accumulate.ts";
+ * import { learnTerms, column } from "../design/mod.ts";
+ * import { tableFromColumns } from "../table/mod.ts";
+ * const terms = learnTerms([column("x")], tableFromColumns({ x: [0, 1] }));
+ * const acc = new FoldAccumulator(terms, "y", 2, "demo");
+ * acc.add({
+ *   size: 4,
+ *   columns: new Map([["x", Float64Array.of(0, 1, 2, 3)], ["y", Float64Array.of(1, 2, 2, 4)]]),
+ *   bucket: Int32Array.of(0, 1, 0, 1), lines: Int32Array.of(2, 3, 4, 5),
+ * });
+ * console.log(acc.totals().map((m) => m.count)); // [ 2, 2 ]
+ * ```
+ */
+export class FoldAccumulator {
+  readonly #terms: readonly LearnedTerm[];
+  readonly #target: string;
+  readonly #source: string;
+  #totals: Moments[];
+
+  constructor(terms: readonly LearnedTerm[], target: string, buckets: number, source: string) {
+    this.#terms = terms;
+    this.#target = target;
+    this.#source = source;
+    const d = terms.reduce((s, t) => s + t.names.length, 0) + 1;
+    this.#totals = Array.from({ length: buckets }, () => emptyMoments(d));
+  }
+
+  /** Summarizes a chunk and merges it into the totals. */
+  add(chunk: Chunk): void {
+    const n = chunk.size;
+    if (n === 0) return;
+    const columns = new Map<string, Column>();
+    for (const [name, values] of chunk.columns) {
+      columns.set(name, { kind: "number", name, values: values.subarray(0, n) });
+    }
+    const table: Table = {
+      nRows: n,
+      names: [...columns.keys()],
+      columns,
+      source: this.#source,
+      lineOfRow: chunk.lines.subarray(0, n),
+      missing: { policy: "error", droppedLines: [] },
+    };
+    const design = buildDesign(this.#terms, table);
+    const y = chunk.columns.get(this.#target)!.subarray(0, n);
+    const parts = bucketMoments(
+      design.block.hi,
+      design.p,
+      y,
+      chunk.bucket.subarray(0, n),
+      this.#totals.length,
+    );
+    const d = design.p + 1;
+    this.#totals = this.#totals.map((total, b) => mergeMoments([total, parts[b]], d));
+  }
+
+  /** The summaries so far, one per bucket. */
+  totals(): readonly Moments[] {
+    return this.#totals;
+  }
+
+  /** Bytes held by the summaries (what grows with p and the bucket count, never with rows). */
+  bytes(): number {
+    return this.#totals.reduce((s, m) => s + m.mean.byteLength + m.cross.byteLength, 0);
+  }
+}

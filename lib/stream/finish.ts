@@ -1,0 +1,360 @@
+/**
+ * From per-fold summaries to a result, shared by the streaming and the SQL sweep: each fold's
+ * training and held-out summaries are mapped into the basis of terms learned on its training
+ * rows (from ranges, lib/stream/ranges.ts), or recomputed by one more pass over the data when
+ * that change of basis would amplify rounding (as the in-memory sweep re-reads rows); then the
+ * summary-only engine (lib/sweep/engine.ts) scores the λ grid, the rule picks λ, and the chosen
+ * model is fitted from the all-rows summary (lib/fit/summary_fit.ts).
+ *
+ * @module
+ */
+import { CurbfitError } from "../errors/error.ts";
+import { deepFreeze } from "../common/freeze.ts";
+import type { LearnedTerm, Term } from "../design/types.ts";
+import type { Fit, FitSpec } from "../fit/fit.ts";
+import { fitFromMoments } from "../fit/summary_fit.ts";
+import { penaltyWeights, ridge } from "../fit/penalty.ts";
+import { emptyMoments, mergeMoments, type Moments, removeMoments } from "../sweep/moments.ts";
+import { basisChange, changeMoments } from "../sweep/basis.ts";
+import { crossValidate, curvePoints, type FoldSummarySource } from "../sweep/engine.ts";
+import type { LambdaGrid } from "../sweep/grid.ts";
+import { runStepsAsync } from "../common/steps.ts";
+import { type Choice, choose, type SelectionRule } from "../sweep/select.ts";
+import type { CurvePoint, Progress } from "../sweep/sweep.ts";
+import { FOLD_HASH } from "./hash.ts";
+import { checkFoldsFilled, type FoldRanges, learnOnRanges } from "./ranges.ts";
+
+/**
+ * How folds are made when the rows are not in memory: the fold hash of a key.
+ *
+ * @example
+ * ```ts
+ * import type { HashFoldRequest } from "./finish.ts";
+ * const folds: HashFoldRequest = { k: 10, seed: 7, key: "id" };
+ * ```
+ */
+export interface HashFoldRequest {
+  /** Number of folds (default 10). */
+  readonly k?: number;
+  /** Seed of the fold hash (default 1). */
+  readonly seed?: number;
+  /**
+   * Whole-number column hashed into folds. Streams default to the 0-based data record number;
+   * SQL sources need a key.
+   */
+  readonly key?: string;
+}
+
+/**
+ * What a sweep over data that is not in memory takes: a fit spec without λ, grid, folds, rule.
+ *
+ * @example
+ * ```ts
+ * import type { ScaleSweepSpec } from "./finish.ts";
+ * import { legendre } from "../design/mod.ts";
+ * const spec: ScaleSweepSpec = { target: "y", terms: [legendre("x", 8)], folds: { key: "id" } };
+ * ```
+ */
+export interface ScaleSweepSpec extends Omit<FitSpec, "lambda" | "budget"> {
+  /** λ values, or bounds/count of an automatic log-spaced grid (default 100 points). */
+  readonly lambdas?: LambdaGrid;
+  readonly folds?: HashFoldRequest;
+  /** How to pick λ from the curve (default "min"). */
+  readonly rule?: SelectionRule;
+}
+
+/**
+ * A progress report with the rows read so far and the reading speed.
+ *
+ * @example
+ * ```ts
+ * import type { ScaleProgress } from "./finish.ts";
+ * const line = (p: ScaleProgress) => `${p.stage}: ${p.rows} rows, ${Math.round(p.rowsPerSecond)} rows/s`;
+ * ```
+ */
+export interface ScaleProgress {
+  /** "domains": the first pass (ranges); "summaries": reading rows into fold summaries. */
+  readonly stage: "domains" | Progress["stage"];
+  readonly done: number;
+  /** While reading: bytes read of the total (NaN when the total is unknown). */
+  readonly total: number;
+  /** Rows read into summaries so far in this stage. */
+  readonly rows: number;
+  /** Rows per second over this stage so far while reading; NaN in the later stages. */
+  readonly rowsPerSecond: number;
+}
+
+/**
+ * Receives progress reports; must return quickly.
+ *
+ * @example
+ * ```ts
+ * import type { ScaleProgressListener } from "./finish.ts";
+ * const log: ScaleProgressListener = (p) => console.log(p.stage, p.rows);
+ * ```
+ */
+export type ScaleProgressListener = (progress: ScaleProgress) => void;
+
+/**
+ * The hash folds a scale sweep used.
+ *
+ * @example
+ * ```ts
+ * import type { HashFolds } from "./finish.ts";
+ * const smallest = (f: HashFolds) => Math.min(...f.sizes);
+ * ```
+ */
+export interface HashFolds {
+  /** `curbfit.fold-hash/1` (lib/stream/README.md). */
+  readonly hash: string;
+  readonly seed: number;
+  readonly k: number;
+  /** The key column, or null for data record numbers. */
+  readonly key: string | null;
+  /** Rows in each fold. */
+  readonly sizes: readonly number[];
+}
+
+/**
+ * Everything a scale sweep found. Frozen.
+ *
+ * @example
+ * ```ts
+ * import type { ScaleSweepResult } from "./finish.ts";
+ * const best = (r: ScaleSweepResult) => r.curve[r.chosen.index].cvMean;
+ * ```
+ */
+export interface ScaleSweepResult {
+  readonly target: string;
+  readonly n: number;
+  readonly names: readonly string[];
+  readonly orders: readonly number[];
+  readonly gamma: readonly number[];
+  readonly standardize: boolean;
+  readonly intercept: boolean;
+  readonly folds: HashFolds;
+  /** Per λ as in `sweep` (closed-form leave-one-out is not computed: `loo` is null). */
+  readonly curve: readonly CurvePoint[];
+  readonly minimum: Choice;
+  readonly chosen: Choice;
+  readonly notes: readonly string[];
+  /** The chosen model fitted from the all-rows summary (lib/fit/summary_fit.ts). */
+  readonly fit: Fit;
+  /** Where the rows came from (file path, "stream", a SQL table). */
+  readonly source: string;
+  /** Passes over the data (reads or queries), including any fold re-read. */
+  readonly passes: number;
+  readonly cautions: readonly string[];
+}
+
+/**
+ * Plain cautions carried by every result.
+ *
+ * @example
+ * ```ts
+ * import { CAUTIONS } from "./finish.ts";
+ * console.log(CAUTIONS.length); // 3
+ * ```
+ */
+export const CAUTIONS: readonly string[] = Object.freeze([
+  "Cross-validation error estimates error on new rows like these; it is not a guarantee.",
+  "Predictions outside the ranges seen in training (e.g. a Legendre domain) are extrapolation.",
+  "Hash folds assume rows are exchangeable; rows in clusters or time order need other folds.",
+]);
+
+/**
+ * Defaults of the hash folds.
+ *
+ * @example
+ * ```ts
+ * import { DEFAULT_HASH_FOLDS } from "./finish.ts";
+ * console.log(DEFAULT_HASH_FOLDS.k, DEFAULT_HASH_FOLDS.seed); // 10 1
+ * ```
+ */
+export const DEFAULT_HASH_FOLDS = { k: 10, seed: 1 } as const;
+
+/**
+ * Checks the parts of a spec that do not need the data: target, terms (numeric inputs only),
+ * fold request. Returns the term input columns.
+ *
+ * @example
+ * ```ts
+ * import { checkScaleSpec } from "./finish.ts";
+ * import { legendre } from "../design/mod.ts";
+ * console.log(checkScaleSpec({ target: "y", terms: [legendre("x", 3)] })); // [ "x" ]
+ * ```
+ */
+export function checkScaleSpec(spec: ScaleSweepSpec): string[] {
+  if (typeof spec?.target !== "string" || spec.target === "") {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      "no target column was named",
+      'Pass e.g. { target: "y" }',
+      {
+        option: "target",
+      },
+    );
+  }
+  if (!Array.isArray(spec.terms) || spec.terms.length === 0) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      "no terms were given",
+      'Pass at least one term, e.g. terms: [legendre("x", 5)]',
+      { option: "terms" },
+    );
+  }
+  spec.terms.forEach((t: Term, i) => {
+    if (JSON.stringify(t?.spec ?? null).includes('"kind":"indicators"')) {
+      throw new CurbfitError(
+        "BAD_OPTION",
+        `terms[${i}] (${t.label}) reads a category column, which sweeps over streams and SQL ` +
+          "do not support yet",
+        "Use numeric terms (legendre, column, power, products of them), or load the table in memory",
+        { option: `terms[${i}]` },
+      );
+    }
+    if (t.inputs.includes(spec.target)) {
+      throw new CurbfitError(
+        "BAD_OPTION",
+        `the target ${JSON.stringify(spec.target)} is also an input of ${t.label}`,
+        "Remove that term or choose another target",
+        { option: "terms" },
+      );
+    }
+  });
+  const folds = spec.folds ?? {};
+  if (folds.key !== undefined && (typeof folds.key !== "string" || folds.key === "")) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      "folds.key must be a column name",
+      'Pass e.g. { key: "id" }',
+      {
+        option: "folds.key",
+      },
+    );
+  }
+  return [...new Set(spec.terms.flatMap((t) => [...t.inputs]))];
+}
+
+/**
+ * Everything the finishing step needs.
+ *
+ * @example
+ * ```ts
+ * import type { FinishInput } from "./finish.ts";
+ * const folds = (input: FinishInput) => input.k;
+ * ```
+ */
+export interface FinishInput {
+  readonly spec: ScaleSweepSpec;
+  readonly k: number;
+  readonly seed: number;
+  readonly key: string | null;
+  readonly source: string;
+  /** Per-fold counts and column ranges over all rows used. */
+  readonly ranges: FoldRanges;
+  /** Terms learned on all rows, the basis of `buckets`. */
+  readonly terms: readonly LearnedTerm[];
+  /** Summary of each fold (0 … k−1) in the basis of `terms`. */
+  readonly buckets: readonly Moments[];
+  /** Training and held-out summaries of fold f in the basis of `foldTerms`, from the rows. */
+  readonly refetch: (f: number, foldTerms: readonly LearnedTerm[]) => Promise<[Moments, Moments]>;
+  readonly passes: number;
+  readonly report: ScaleProgressListener;
+}
+
+/**
+ * Scores the grid from fold summaries, chooses λ and fits the chosen model.
+ *
+ * @example
+ * ```ts
+ * import { finishSweep } from "./finish.ts";
+ * // finishSweep({ spec, k, seed, key, source, ranges, terms, buckets, refetch, passes, report })
+ * // is called by sweepStream and sweepSql once the fold summaries are in.
+ * ```
+ */
+export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult> {
+  const { spec, k, ranges, terms, buckets } = input;
+  checkFoldsFilled(ranges, input.source);
+  const names = terms.flatMap((t) => t.names);
+  const orders = terms.flatMap((t) => t.orders);
+  const d = names.length + 1;
+  const all = mergeMoments(buckets, d);
+  let passes = input.passes;
+  const folds: { train: Moments; validation: Moments; where: string }[] = [];
+  for (let f = 0; f < k; f++) {
+    const foldTerms = learnOnRanges(spec.terms, ranges, f, input.source);
+    const change = basisChange(terms, foldTerms);
+    const where = `training rows of fold ${f + 1}`;
+    if (change !== undefined) {
+      const train = changeMoments(removeMoments(all, buckets[f]), change);
+      folds.push({ train, validation: changeMoments(buckets[f], change), where });
+    } else {
+      const [train, validation] = await input.refetch(f, foldTerms);
+      passes++;
+      folds.push({ train, validation, where });
+    }
+  }
+  const options = {
+    gamma: penaltyWeights(spec.penalty ?? ridge(), orders),
+    standardize: spec.standardize ?? true,
+    intercept: spec.intercept ?? true,
+  };
+  const source: FoldSummarySource = {
+    all,
+    repeats: 1,
+    k,
+    buckets: () => [...buckets, emptyMoments(d)],
+    fold: (_r, f) => folds[f],
+  };
+  const n = all.count;
+  // The engine's own "summaries" step (building fold summaries from rows in memory) has no
+  // counterpart here: the rows were already read.
+  const report = (p: Progress) => {
+    if (p.stage === "summaries") return;
+    input.report({ stage: p.stage, done: p.done, total: p.total, rows: n, rowsPerSecond: NaN });
+  };
+  const cv = await runStepsAsync(crossValidate(source, names, options, spec.lambdas, report));
+  const curve = curvePoints(cv, k, null);
+  const means = curve.map((c) => c.cvMean);
+  const ses = curve.map((c) => c.cvSe);
+  const minimum = choose("min", cv.lambdas, means, ses);
+  const chosen = choose(spec.rule ?? "min", cv.lambdas, means, ses);
+  report({ stage: "refit", done: 0, total: 1 });
+  const fit = fitFromMoments(all, terms, { ...spec, lambda: chosen.lambda });
+  report({ stage: "refit", done: 1, total: 1 });
+  return deepFreeze({
+    target: spec.target,
+    n,
+    names,
+    orders,
+    gamma: Array.from(options.gamma),
+    standardize: options.standardize,
+    intercept: options.intercept,
+    folds: {
+      hash: FOLD_HASH,
+      seed: input.seed,
+      k,
+      key: input.key,
+      sizes: Array.from(ranges.counts),
+    },
+    curve,
+    minimum,
+    chosen,
+    notes: edgeNote(minimum, cv.lambdas.length),
+    fit,
+    source: input.source,
+    passes,
+    cautions: [...CAUTIONS],
+  });
+}
+
+/** A note when the smallest CV error sits on an end of the grid. */
+function edgeNote(minimum: Choice, count: number): string[] {
+  if (count < 2 || (minimum.index !== 0 && minimum.index !== count - 1)) return [];
+  const end = minimum.index === 0 ? "smallest" : "largest";
+  return [
+    `The smallest CV error is at the ${end} λ of the grid (${minimum.lambda.toPrecision(3)}); ` +
+    "extend the grid past it to see whether the error keeps falling.",
+  ];
+}
