@@ -125,6 +125,14 @@ Deno.test("CSV file, learned domains (two passes), key column: equals the in-mem
     assert.ok(reading.every((r, i) => i === 0 || r.rows >= reading[i - 1].rows));
     assert.ok(reading.every((r) => r.rowsPerSecond > 0 && r.done <= r.total));
     assert.ok(reports.some((r) => r.stage === "folds") && reports.at(-1)!.stage === "refit");
+    // In a notebook the result shows itself like an in-memory sweep, naming the hash folds.
+    const bundle = await (got as unknown as Record<symbol, () => Promise<Record<string, string>>>)[
+      Symbol.for("Jupyter.display")
+    ]();
+    assert.match(bundle["image/svg+xml"], /^<svg/);
+    assert.match(bundle["text/plain"], /5-fold CV by key hash, seed 8/);
+    assert.match(bundle["text/plain"], /folds from curbfit\.fold-hash\/1 of column id/);
+    assert.ok(bundle["application/vnd.vegalite.v5+json"]);
   } finally {
     await Deno.remove(path);
   }

@@ -13,6 +13,7 @@
  */
 import { CurbfitError } from "../errors/error.ts";
 import { deepFreeze } from "../common/freeze.ts";
+import { scaleSweepBundle, withDisplay } from "../views/display.ts";
 import type { LearnedTerm } from "../design/types.ts";
 import type { Moments } from "../sweep/moments.ts";
 import {
@@ -240,7 +241,7 @@ export async function sweepSql(
     passes: 0,
     report,
   });
-  return deepFreeze({
+  return deepFreeze(withDisplay({
     ...result,
     passes: ran.length,
     engine: connection.dialect.name,
@@ -248,7 +249,7 @@ export async function sweepSql(
     queries: ran,
     seconds: (performance.now() - started) / 1000,
     rowsPerSecond: n / aggregated,
-  });
+  }, scaleSweepBundle));
 }
 
 /** Feature blocks of the learned terms and the target, in design order. */

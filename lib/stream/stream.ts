@@ -14,6 +14,7 @@
  */
 import { CurbfitError } from "../errors/error.ts";
 import { deepFreeze } from "../common/freeze.ts";
+import { scaleSweepBundle, withDisplay } from "../views/display.ts";
 import type { Json, LearnedTerm } from "../design/types.ts";
 import type { Moments } from "../sweep/moments.ts";
 import { FoldAccumulator } from "./accumulate.ts";
@@ -195,14 +196,14 @@ export async function sweepStream(
     report,
   });
   const seconds = (performance.now() - started) / 1000;
-  return deepFreeze({
+  return deepFreeze(withDisplay({
     ...result,
     passes,
     rows: stats,
     memory: { summaryBytes: accumulator.bytes(), chunkRows },
     seconds,
     rowsPerSecond: summarized / seconds,
-  });
+  }, scaleSweepBundle));
 }
 
 /** Does this term recipe learn a Legendre domain from the rows? */

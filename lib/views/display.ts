@@ -21,6 +21,7 @@
 import type { Fit } from "../fit/fit.ts";
 import type { ComparisonResult } from "../sweep/compare.ts";
 import type { SweepResult } from "../sweep/sweep.ts";
+import type { ScaleSweepResult } from "../stream/finish.ts";
 import type { Table } from "../table/types.ts";
 import type { FoldsSection, ModelChoiceRecord, ModelSection } from "../record/schema.ts";
 import type { VerifyReport } from "../record/report.ts";
@@ -143,7 +144,10 @@ function curveTable(source: CurveSource): CellTable {
   };
 }
 
-function sweepTexts(s: SweepResult): Texts {
+/** What the words of a sweep need: its curve, its final model, and how that model was made. */
+type SweepWords = CurveSource & { readonly fit: Fit };
+
+function sweepTexts(s: SweepWords, finalModel: string, extra: readonly string[] = []): Texts {
   const labels = s.fit.terms.map((t) => t.term.label).join(" + ");
   const f = s.fit.summary;
   const table = curveTable(s);
@@ -151,11 +155,12 @@ function sweepTexts(s: SweepResult): Texts {
   return texts([
     `Model: ${s.target} from ${labels}; ${penaltyWords(f.penalty)}; ` +
     `${s.n} rows, ${foldWords(s.folds)}; ${rows} λ values.`,
+    ...extra,
     table,
     ...(table.rows.length < rows
       ? [`(${table.rows.length} of ${rows} grid rows, evenly spread; result.curve holds all.)`]
       : []),
-    `Chosen model, refit on all rows with the exact solver: λ = ${lambdaText(f.lambda)}, ` +
+    `Chosen model, ${finalModel}: λ = ${lambdaText(f.lambda)}, ` +
     `${num(f.df)} effective df, budget C = ${num(f.budget)}, training MSE ${num(f.trainMse)}, ` +
     `intercept ${num(f.intercept)}. Show result.fit for its coefficients.`,
     ...s.notes,
@@ -179,9 +184,36 @@ function sweepTexts(s: SweepResult): Texts {
  * ```
  */
 export function sweepBundle(s: SweepResult): Promise<ShownBundle> {
-  const t = sweepTexts(s);
+  const t = sweepTexts(s, "refit on all rows with the exact solver");
   return chartBundle(validationCurveChart(s), {
     heading: `Sweep: ${s.target}`,
+    plain: t.plain,
+    html: t.html,
+    markdown: t.markdown,
+  });
+}
+
+/**
+ * The MIME bundle of a sweep over streamed or SQL data (`sweepStream`, `sweepSql`): the same
+ * validation curve and words as `sweepBundle`, with the hash folds, the source and the passes.
+ *
+ * @example
+ * ```ts
+ * import { scaleSweepBundle } from "./display.ts";
+ * // const result = await sweepStream("big.csv", { target: "y", terms: [...] });
+ * // const bundle = await scaleSweepBundle(result);
+ * ```
+ */
+export function scaleSweepBundle(r: ScaleSweepResult): Promise<ShownBundle> {
+  const folds = { scheme: "key-hash", k: r.folds.k, repeats: 1, seed: r.folds.seed } as const;
+  const words = { ...r, folds };
+  const key = r.folds.key === null ? "the data record number" : `column ${r.folds.key}`;
+  const t = sweepTexts(words, "fitted from the all-rows summary", [
+    `Rows from ${r.source}, read in ${r.passes} pass${r.passes === 1 ? "" : "es"}; ` +
+    `folds from ${r.folds.hash} of ${key}.`,
+  ]);
+  return chartBundle(validationCurveChart(words), {
+    heading: `Sweep: ${r.target}`,
     plain: t.plain,
     html: t.html,
     markdown: t.markdown,

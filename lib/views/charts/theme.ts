@@ -177,8 +177,12 @@ export function num(x: number, digits = 3): string {
   return formatNumber(x, digits).replace(/^-/, "−");
 }
 
-/** The fold-plan fields a chart title uses. */
-export type PlanWords = Pick<FoldPlan, "scheme" | "k" | "repeats" | "seed"> & {
+/**
+ * The fold-plan fields a chart title uses. Scheme "key-hash" is the fold hash of a key used when
+ * rows are streamed or stay in a SQL engine (lib/stream/README.md).
+ */
+export type PlanWords = Pick<FoldPlan, "k" | "repeats" | "seed"> & {
+  readonly scheme: FoldPlan["scheme"] | "key-hash";
   readonly fraction?: number | null;
   readonly groupCount?: number | null;
 };
@@ -210,6 +214,8 @@ export function foldWords(plan: PlanWords): string {
       return `leave-one-out CV (${plan.k} folds)`;
     case "explicit":
       return `${plan.k} given folds${repeats}`;
+    case "key-hash":
+      return `${plan.k}-fold CV by key hash${seed}`;
   }
 }
 
