@@ -7,7 +7,7 @@
 import { CurbfitError } from "../errors/error.ts";
 import type { Table } from "../table/types.ts";
 import { checkTerm, rowCount } from "./checks.ts";
-import type { Design, LearnedTerm, OutsideCount, Term } from "./types.ts";
+import type { Design, Json, LearnedTerm, OutsideCount, Term } from "./types.ts";
 
 /**
  * Learns every term from `rows` of `table` (all rows when omitted): domains (and the ranges
@@ -142,4 +142,30 @@ function checkFinite(
       { source: table.source, line: table.lineOfRow[r] },
     );
   }
+}
+
+/**
+ * Does this term's output depend on which rows it learned from? True when its recipe holds a
+ * Legendre term without a given domain (the domain is the training rows' range), directly or
+ * inside a product. Plain columns, powers and indicators (levels come from the table) write the
+ * same values whatever rows they learned on, so per-fold learning can be skipped for them.
+ *
+ * @example
+ * ```ts
+ * import { learnsFromRows } from "./design.ts";
+ * import { column, legendre } from "./mod.ts";
+ * console.log(learnsFromRows(legendre("x", 3)), learnsFromRows(column("z"))); // true false
+ * console.log(learnsFromRows(legendre("x", 3, { domain: [0, 1] }))); // false
+ * ```
+ */
+export function learnsFromRows(term: Term): boolean {
+  return specLearns(term.spec);
+}
+
+function specLearns(spec: Json): boolean {
+  if (Array.isArray(spec)) return spec.some(specLearns);
+  if (typeof spec !== "object" || spec === null) return false;
+  const o = spec as { readonly [k: string]: Json };
+  if (o.kind === "legendre" && o.domain === undefined) return true;
+  return Object.values(o).some(specLearns);
 }

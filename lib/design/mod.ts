@@ -38,6 +38,6 @@ export type { LegendreOptions } from "./legendre.ts";
 export { column, power } from "./power.ts";
 export { indicators } from "./indicators.ts";
 export { product } from "./product.ts";
-export { buildDesign, learnTerms } from "./design.ts";
+export { buildDesign, learnsFromRows, learnTerms } from "./design.ts";
 export { termFromSpec } from "./spec.ts";
 export { MAX_DEGREE } from "./checks.ts";

@@ -57,7 +57,7 @@ export function triangularFactor(
   const off = intercept ? 1 : 0;
   const cols: Float64Array[] = [];
   if (intercept) cols.push(new Float64Array(n).fill(1));
-  for (let q = 0; q < p; q++) cols.push(Float64Array.from({ length: n }, (_, i) => z[i * p + q]));
+  cols.push(...designColumns(z, n, p));
   const qr = householderQR(cols, n);
   const qty = Float64Array.from(y);
   applyQt(qr, qty);
@@ -69,6 +69,16 @@ export function triangularFactor(
   let rho2 = 0;
   for (let i = off + p; i < n; i++) rho2 += qty[i] * qty[i];
   return { r, z: qty.slice(off, off + p), rho2 };
+}
+
+/** The columns of a row-major n×p matrix, each its own array (copied). */
+export function designColumns(z: Float64Array, n: number, p: number): Float64Array[] {
+  const cols = Array.from({ length: p }, () => new Float64Array(n));
+  for (let i = 0; i < n; i++) {
+    const row = i * p;
+    for (let q = 0; q < p; q++) cols[q][i] = z[row + q];
+  }
+  return cols;
 }
 
 /**

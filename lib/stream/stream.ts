@@ -15,7 +15,8 @@
 import { CurbfitError } from "../errors/error.ts";
 import { deepFreeze } from "../common/freeze.ts";
 import { scaleSweepBundle, withDisplay } from "../views/display.ts";
-import type { Json, LearnedTerm } from "../design/types.ts";
+import type { LearnedTerm } from "../design/types.ts";
+import { learnsFromRows } from "../design/mod.ts";
 import type { Moments } from "../sweep/moments.ts";
 import { FoldAccumulator } from "./accumulate.ts";
 import {
@@ -117,7 +118,7 @@ export async function sweepStream(
     label,
   };
   const rereadable = !(source instanceof ReadableStream);
-  const twoPass = spec.terms.some((t) => learnsDomain(t.spec));
+  const twoPass = spec.terms.some(learnsFromRows);
   if (twoPass && !rereadable) {
     throw new CurbfitError(
       "BAD_OPTION",
@@ -204,15 +205,6 @@ export async function sweepStream(
     seconds,
     rowsPerSecond: summarized / seconds,
   }, scaleSweepBundle));
-}
-
-/** Does this term recipe learn a Legendre domain from the rows? */
-function learnsDomain(spec: Json): boolean {
-  if (Array.isArray(spec)) return spec.some(learnsDomain);
-  if (typeof spec !== "object" || spec === null) return false;
-  const o = spec as { readonly [k: string]: Json };
-  if (o.kind === "legendre" && o.domain === undefined) return true;
-  return Object.values(o).some(learnsDomain);
 }
 
 /** Ranges [0, 1] for every column: enough to learn terms whose values do not depend on data. */

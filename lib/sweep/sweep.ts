@@ -18,13 +18,13 @@
 import { deepFreeze } from "../common/freeze.ts";
 import { runSteps, runStepsAsync, type Steps } from "../common/steps.ts";
 import type { Design, LearnedTerm } from "../design/types.ts";
-import { buildDesign, learnTerms } from "../design/mod.ts";
+import { buildDesign, learnsFromRows, learnTerms } from "../design/mod.ts";
 import type { Table } from "../table/types.ts";
 import { toTable } from "../table/mod.ts";
 import { type FoldPlan, foldRows } from "../folds/mod.ts";
 import { type Fit, fitPrepared, type FitSpec, prepare, type TableInput } from "../fit/fit.ts";
 import { penaltyWeights, ridge } from "../fit/penalty.ts";
-import { bucketMoments, type Moments, removeMoments } from "./moments.ts";
+import { bucketMoments, mergeMoments, type Moments, removeMoments } from "./moments.ts";
 import { basisChange, changeMoments } from "./basis.ts";
 import type { LambdaGrid } from "./grid.ts";
 import { type Choice, choose, type SelectionRule } from "./select.ts";
@@ -176,13 +176,22 @@ export function* sweepPrepared(
   };
   const report = spec.progress ?? (() => {});
   const { n, p, hi } = design.block;
-  const all = bucketMoments(hi, p, y, new Int32Array(n), 1)[0];
+  const bucketsOf = (r: number) =>
+    bucketMoments(hi, p, y, bucketOf(plan.assignment[r], plan.k), plan.k + 1);
+  // Repeat 0's fold summaries also give the all-rows summary (Chan et al.'s merge), so rows are
+  // read once per repeat and never once more.
+  const first = bucketsOf(0);
+  const all = mergeMoments(first, p + 1);
+  const relearn = spec.terms.some(learnsFromRows);
   const source: FoldSummarySource = {
     all,
     repeats: plan.repeats,
     k: plan.k,
-    buckets: (r) => bucketMoments(hi, p, y, bucketOf(plan.assignment[r], plan.k), plan.k + 1),
-    fold: (r, f, buckets) => foldSummaries(table, spec, terms, all, buckets, plan, r, f),
+    buckets: (r) => (r === 0 ? first : bucketsOf(r)),
+    fold: (r, f, buckets) =>
+      relearn
+        ? foldSummaries(table, spec, terms, all, buckets, plan, r, f)
+        : sameBasisSummaries(all, buckets, plan, r, f),
   };
   const cv = yield* crossValidate(source, design.names, options, spec.lambdas, report);
   const closed = wantClosedForm(spec.closedForm, n);
@@ -219,6 +228,25 @@ function bucketOf(assignment: Int32Array, k: number): Int32Array {
   return assignment.map((f) => (f < 0 ? k : f));
 }
 
+/** Fold f's summaries when no term learns from rows: the all-rows basis is every fold's basis. */
+function sameBasisSummaries(
+  all: Moments,
+  buckets: readonly Moments[],
+  plan: FoldPlan,
+  r: number,
+  f: number,
+): { train: Moments; validation: Moments; where: string } {
+  return {
+    train: removeMoments(all, buckets[f]),
+    validation: buckets[f],
+    where: foldWhere(plan, r, f),
+  };
+}
+
+function foldWhere(plan: FoldPlan, r: number, f: number): string {
+  return `training rows of fold ${f + 1}` + (plan.repeats > 1 ? ` (repeat ${r + 1})` : "");
+}
+
 /** Training and held-out summaries of fold f, in the basis of terms learned on its training rows. */
 function foldSummaries(
   table: Table,
@@ -230,7 +258,7 @@ function foldSummaries(
   r: number,
   f: number,
 ): { train: Moments; validation: Moments; where: string } {
-  const where = `training rows of fold ${f + 1}` + (plan.repeats > 1 ? ` (repeat ${r + 1})` : "");
+  const where = foldWhere(plan, r, f);
   const rows = foldRows(plan, r, f);
   const foldTerms = learnTerms(spec.terms, table, rows.training);
   const change = basisChange(terms, foldTerms);
