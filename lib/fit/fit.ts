@@ -15,13 +15,8 @@ import type { Design, LearnedTerm, Term } from "../design/types.ts";
 import { buildDesign, learnTerms } from "../design/mod.ts";
 import type { Table } from "../table/types.ts";
 import { type ColumnArrays, type RowObjects, toTable } from "../table/mod.ts";
-import { solveRefined } from "../solve/exact.ts";
-import {
-  degreesOfFreedom,
-  lambdaForBudget,
-  spectralForm,
-  triangularFactor,
-} from "../solve/spectral.ts";
+import { factorData, solveRefined, triangularOf } from "../solve/exact.ts";
+import { degreesOfFreedom, lambdaForBudget, spectralForm } from "../solve/spectral.ts";
 import { jacobiSvd } from "../numeric/svd.ts";
 import { DDAccumulator } from "../numeric/dd.ts";
 import { penaltyWeights, ridge, type RidgePenalty } from "./penalty.ts";
@@ -184,13 +179,14 @@ export function fitPrepared(
   const sds = scales ? scales.sds : new Float64Array(p).fill(1);
   if (scales) checkNotConstant(design, sds, scales.means);
   const gamma = penaltyWeights(penalty, design.orders);
-  const tri = triangularFactor(n, p, design.block.hi, y, intercept);
+  const factor = factorData(design.block, intercept);
+  const tri = triangularOf(factor, y);
   const condition = conditionNumber(tri.r, sds);
   const sf = spectralForm(tri, sds, gamma);
   const lambda = spec.budget !== undefined ? lambdaForBudget(sf, spec.budget) : spec.lambda ?? 0;
   if (lambda === 0) checkRank(design, tri.r, sds, condition, n, intercept);
   const penaltyRoot = Float64Array.from(gamma, (g, q) => Math.sqrt(lambda * g) * sds[q]);
-  const sol = solveRefined({ ...design.block, y, intercept, penaltyRoot });
+  const sol = solveRefined({ ...design.block, y, intercept, penaltyRoot }, factor);
   const w = Array.from(sol.w);
   const wStd = w.map((v, q) => v * sds[q]);
   const means = scales ? Array.from(scales.means) : new Array<number>(p).fill(0);

@@ -6,13 +6,20 @@
  * Problem (augmented-error convention, sum-of-squares units):
  *   minimize Σᵢ (yᵢ − b − Σ_q Z_iq w_q)² + Σ_q c_q² w_q²
  * where c_q = √(λ γ_q) · s_q is supplied by the caller (s_q the column's scale). The penalty
- * enters as p extra rows of the matrix, so λ = 0 is ordinary least squares and the intercept
- * b is never penalized. The normal equations are never formed.
+ * enters as p extra rows of the matrix A = [1 Z; 0 diag(c)], so λ = 0 is ordinary least squares
+ * and the intercept b is never penalized. The normal equations are never formed.
+ *
+ * One Householder QR of the data rows, Z₀ = Q₀R₀, serves every λ: the penalty rows are folded in
+ * by a small QR of [R₀; diag(c)] (the standard update for appended rows; Golub & Van Loan,
+ * *Matrix Computations*, 4th ed., §6.5), so A = Q R with Q = diag(Q₀, I)·Q_s. R₀ also gives the
+ * unpenalized triangular factor the spectral form needs (df, condition, budget).
  *
  * @module
  */
-import { applyQ, applyQt, householderQR, solveR, solveRt } from "../numeric/qr.ts";
+import { applyQ, applyQt, type HouseholderQR, householderQR, rEntry } from "../numeric/qr.ts";
 import { DDAccumulator } from "../numeric/dd.ts";
+import type { DesignBlock } from "../design/types.ts";
+import type { Triangular } from "./spectral.ts";
 
 /** A least-squares problem with a double-double design (row-major n×p). */
 export interface LsProblem {
@@ -40,11 +47,79 @@ export interface LsSolution {
   readonly lastCorrection: number;
 }
 
+/**
+ * The QR factorization of the data rows [1 Z] (or [Z]), each column scaled by an exact power of
+ * two to unit max-abs (so scaling adds no rounding).
+ */
+export interface DataFactor {
+  readonly n: number;
+  readonly p: number;
+  readonly intercept: boolean;
+  readonly qr: HouseholderQR;
+  /** Power-of-two scale of each factored column (1 for the intercept). */
+  readonly scale: Float64Array;
+}
+
 const MAX_STEPS = 40;
 const CONVERGED = 2 ** -60;
 
 /**
- * Solves the problem to (near) full double precision in the coefficients.
+ * Factors the data rows of a design once (one copy, one QR).
+ *
+ * @example
+ * ```ts
+ * import { factorData } from "./exact.ts";
+ * const f = factorData({ n: 3, p: 1, hi: Float64Array.of(0, 1, 2), lo: new Float64Array(3) }, true);
+ * console.log(f.qr.n); // 2: intercept and one column
+ * ```
+ */
+export function factorData(block: DesignBlock, intercept: boolean): DataFactor {
+  const { n, p, hi } = block;
+  const off = intercept ? 1 : 0;
+  const scale = new Float64Array(off + p).fill(1);
+  const maxAbs = new Float64Array(p);
+  for (let i = 0; i < n; i++) {
+    for (let q = 0; q < p; q++) maxAbs[q] = Math.max(maxAbs[q], Math.abs(hi[i * p + q]));
+  }
+  maxAbs.forEach((m, q) => (scale[off + q] = m > 0 ? 2 ** -Math.floor(Math.log2(m)) : 1));
+  const cols = Array.from({ length: off + p }, () => new Float64Array(n));
+  if (intercept) cols[0].fill(1);
+  for (let i = 0; i < n; i++) {
+    const row = i * p;
+    for (let q = 0; q < p; q++) cols[off + q][i] = hi[row + q] * scale[off + q];
+  }
+  return { n, p, intercept, qr: householderQR(cols, n), scale };
+}
+
+/**
+ * R, z and ρ² of the unpenalized problem from the data factor: R in the design's own units
+ * (the trailing block after the intercept: the centered problem), z the matching part of Qᵀy.
+ *
+ * @example
+ * ```ts
+ * import { factorData, triangularOf } from "./exact.ts";
+ * const f = factorData({ n: 3, p: 1, hi: Float64Array.of(0, 1, 2), lo: new Float64Array(3) }, true);
+ * console.log(triangularOf(f, Float64Array.of(1, 3, 5)).rho2 < 1e-20); // true
+ * ```
+ */
+export function triangularOf(factor: DataFactor, y: Float64Array): Triangular {
+  const { n, p, qr, scale } = factor;
+  const off = factor.intercept ? 1 : 0;
+  const qty = Float64Array.from(y);
+  applyQt(qr, qty);
+  const r = Array.from({ length: p }, (_, q) => {
+    const col = new Float64Array(p);
+    for (let i = 0; i <= q; i++) col[i] = rEntry(qr, i + off, q + off) / scale[q + off];
+    return col;
+  });
+  let rho2 = 0;
+  for (let i = off + p; i < n; i++) rho2 += qty[i] * qty[i];
+  return { r, z: qty.slice(off, off + p), rho2 };
+}
+
+/**
+ * Solves the problem to (near) full double precision in the coefficients, reusing `factor`
+ * (from `factorData` of the same design) when given.
  *
  * @example
  * ```ts
@@ -56,43 +131,27 @@ const CONVERGED = 2 ** -60;
  * console.log(sol.intercept, sol.w[0]); // 1 2
  * ```
  */
-export function solveRefined(problem: LsProblem): LsSolution {
-  const a = augmentedColumns(problem);
-  const { m, hi, lo, scale } = a;
-  const nc = hi.length;
-  const qr = householderQR(hi.map((c) => Float64Array.from(c)), m);
-  const b = new Float64Array(m);
-  b.set(problem.y);
+export function solveRefined(problem: LsProblem, factor?: DataFactor): LsSolution {
+  const data = factor ?? factorData(problem, problem.intercept);
+  const ortho = augmentedFactor(data, problem.penaltyRoot);
+  const { n } = problem;
+  const nc = data.scale.length;
+  const m = n + ortho.penaltyRows;
   const x = new Float64Array(nc);
   const r = new Float64Array(m);
-  const acc = new DDAccumulator();
   let steps = 0;
   let last = Infinity;
   for (; steps < MAX_STEPS; steps++) {
-    const f = new Float64Array(m);
-    for (let i = 0; i < m; i++) {
-      acc.reset();
-      acc.add(b[i]);
-      acc.add(-r[i]);
-      for (let j = 0; j < nc; j++) acc.addDDProduct(-hi[j][i], -lo[j][i], x[j]);
-      f[i] = acc.value();
-    }
-    const g = new Float64Array(nc);
-    for (let j = 0; j < nc; j++) {
-      acc.reset();
-      const h = hi[j], l = lo[j];
-      for (let i = 0; i < m; i++) acc.addDDProduct(h[i], l[i], r[i]);
-      g[j] = -acc.value();
-    }
-    // Solve [I A; Aᵀ 0][δr; δx] = [f; g] with A = Q[R; 0].
-    const h = solveRt(qr, g);
-    applyQt(qr, f);
+    const f = residualF(problem, data, ortho, x, r);
+    const g = residualG(problem, data, ortho, r);
+    // Solve [I A; Aᵀ 0][δr; δx] = [f; g] with A = Q[R; 0] (Björck 1967).
+    const h = ortho.solveRt(g);
+    const qtf = ortho.qt(f);
     const d1h = new Float64Array(nc);
-    for (let j = 0; j < nc; j++) d1h[j] = f[j] - h[j];
-    const dx = solveR(qr, d1h);
-    const dr = f; // reuse: [h; d2]
-    dr.set(h);
-    applyQ(qr, dr);
+    for (let j = 0; j < nc; j++) d1h[j] = qtf[j] - h[j];
+    const dx = ortho.solveR(d1h);
+    qtf.set(h);
+    const dr = ortho.q(qtf);
     let dxMax = 0, xMax = 0;
     for (let j = 0; j < nc; j++) {
       x[j] += dx[j];
@@ -108,7 +167,7 @@ export function solveRefined(problem: LsProblem): LsSolution {
       break;
     }
   }
-  for (let j = 0; j < nc; j++) x[j] *= scale[j];
+  for (let j = 0; j < nc; j++) x[j] *= data.scale[j];
   const off = problem.intercept ? 1 : 0;
   const w = x.slice(off);
   const intercept = problem.intercept ? x[0] : 0;
@@ -142,37 +201,144 @@ export function residualSumOfSquares(
   return sum.value();
 }
 
-/** Columns of [1 Z; 0 diag(c)] scaled by exact powers of two to unit max-abs. */
-function augmentedColumns(problem: LsProblem) {
-  const { n, p, intercept } = problem;
-  const pen = problem.penaltyRoot;
-  const penalized = pen !== undefined && pen.some((c) => c > 0);
-  const m = n + (penalized ? p : 0);
-  const hi: Float64Array[] = [];
-  const lo: Float64Array[] = [];
-  const scale: number[] = [];
-  if (intercept) {
-    const ones = new Float64Array(m);
-    ones.fill(1, 0, n);
-    hi.push(ones);
-    lo.push(new Float64Array(m));
-    scale.push(1);
+/**
+ * The orthogonal factor of A = [1 Z; 0 diag(c)] (scaled), as operations. Vectors in the
+ * rotated space are laid out as [the nc + (penalty rows) entries of the small factor's space,
+ * then the n − nc trailing entries of Q₀ᵀ's data part].
+ */
+interface AugmentedFactor {
+  readonly penaltyRows: number;
+  /** Penalty row value of factored column j (scaled units), 0 for the intercept. */
+  readonly penalty: Float64Array;
+  qt(v: Float64Array): Float64Array;
+  q(v: Float64Array): Float64Array;
+  solveR(b: Float64Array): Float64Array;
+  solveRt(b: Float64Array): Float64Array;
+}
+
+function augmentedFactor(data: DataFactor, root: Float64Array | undefined): AugmentedFactor {
+  const { n, qr } = data;
+  const nc = data.scale.length;
+  const off = data.intercept ? 1 : 0;
+  const penalty = new Float64Array(nc);
+  if (root) root.forEach((c, q) => (penalty[off + q] = c * data.scale[off + q]));
+  const rows = root !== undefined && root.some((c) => c > 0) ? data.p : 0;
+  // Small factor of [R₀; P] ((nc + rows) × nc), or R₀ itself when there is no penalty.
+  const small = householderQR(
+    Array.from({ length: nc }, (_, j) => {
+      const col = new Float64Array(nc + rows);
+      for (let i = 0; i <= j; i++) col[i] = rEntry(qr, i, j);
+      if (rows > 0 && j >= off) col[nc + j - off] = penalty[j];
+      return col;
+    }),
+    nc + rows,
+  );
+  const mid = nc + rows;
+  return {
+    penaltyRows: rows,
+    penalty,
+    qt(v) {
+      const data0 = v.slice(0, n);
+      applyQt(qr, data0);
+      const out = new Float64Array(n + rows);
+      out.set(data0.subarray(0, nc));
+      out.set(v.subarray(n, n + rows), nc);
+      applyQt(small, out.subarray(0, mid) as Float64Array);
+      out.set(data0.subarray(nc), mid);
+      return out;
+    },
+    q(v) {
+      const head = v.slice(0, mid);
+      applyQ(small, head);
+      const data0 = new Float64Array(n);
+      data0.set(head.subarray(0, nc));
+      data0.set(v.subarray(mid), nc);
+      applyQ(qr, data0);
+      const out = new Float64Array(n + rows);
+      out.set(data0);
+      out.set(head.subarray(nc), n);
+      return out;
+    },
+    solveR: (b) => solveUpper(small, b),
+    solveRt: (b) => solveUpperTransposed(small, b),
+  };
+}
+
+function solveUpper(qr: HouseholderQR, b: ArrayLike<number>): Float64Array {
+  const n = qr.n;
+  const x = new Float64Array(n);
+  for (let i = n - 1; i >= 0; i--) {
+    let s = b[i];
+    for (let j = i + 1; j < n; j++) s -= qr.cols[j][i] * x[j];
+    x[i] = s / qr.rdiag[i];
   }
-  for (let q = 0; q < p; q++) {
-    const h = new Float64Array(m);
-    const l = new Float64Array(m);
-    let maxAbs = 0;
-    for (let i = 0; i < n; i++) maxAbs = Math.max(maxAbs, Math.abs(problem.hi[i * p + q]));
-    if (penalized) maxAbs = Math.max(maxAbs, pen![q]);
-    const d = maxAbs > 0 ? 2 ** -Math.floor(Math.log2(maxAbs)) : 1;
-    for (let i = 0; i < n; i++) {
-      h[i] = problem.hi[i * p + q] * d;
-      l[i] = problem.lo[i * p + q] * d;
-    }
-    if (penalized) h[n + q] = pen![q] * d;
-    hi.push(h);
-    lo.push(l);
-    scale.push(d);
+  return x;
+}
+
+function solveUpperTransposed(qr: HouseholderQR, b: ArrayLike<number>): Float64Array {
+  const n = qr.n;
+  const x = new Float64Array(n);
+  for (let j = 0; j < n; j++) {
+    let s = b[j];
+    for (let i = 0; i < j; i++) s -= qr.cols[j][i] * x[i];
+    x[j] = s / qr.rdiag[j];
   }
-  return { m, hi, lo, scale: Float64Array.from(scale) };
+  return x;
+}
+
+/** f = b − r − A x in double-double (data rows from the row-major design, then penalty rows). */
+function residualF(
+  problem: LsProblem,
+  data: DataFactor,
+  ortho: AugmentedFactor,
+  x: Float64Array,
+  r: Float64Array,
+): Float64Array {
+  const { n, p, hi, lo, y } = problem;
+  const off = problem.intercept ? 1 : 0;
+  const scaled = Float64Array.from(x, (v, j) => v * data.scale[j]);
+  const f = new Float64Array(n + ortho.penaltyRows);
+  const acc = new DDAccumulator();
+  for (let i = 0; i < n; i++) {
+    acc.reset();
+    acc.add(y[i]);
+    acc.add(-r[i]);
+    if (off) acc.add(-x[0]);
+    const row = i * p;
+    for (let q = 0; q < p; q++) acc.addDDProduct(-hi[row + q], -lo[row + q], scaled[off + q]);
+    f[i] = acc.value();
+  }
+  for (let q = 0; q < ortho.penaltyRows; q++) {
+    acc.reset();
+    acc.add(-r[n + q]);
+    acc.addProduct(-ortho.penalty[off + q], x[off + q]);
+    f[n + q] = acc.value();
+  }
+  return f;
+}
+
+/** g = −Aᵀ r in double-double, reading the row-major design once. */
+function residualG(
+  problem: LsProblem,
+  data: DataFactor,
+  ortho: AugmentedFactor,
+  r: Float64Array,
+): Float64Array {
+  const { n, p, hi, lo } = problem;
+  const off = problem.intercept ? 1 : 0;
+  const nc = off + p;
+  const sums = Array.from({ length: nc }, () => new DDAccumulator());
+  for (let i = 0; i < n; i++) {
+    const ri = r[i];
+    if (off) sums[0].add(ri);
+    const row = i * p;
+    for (let q = 0; q < p; q++) sums[off + q].addDDProduct(hi[row + q], lo[row + q], ri);
+  }
+  // Column j of the scaled matrix is the design column times scale[j], an exact power of two, so
+  // the penalty entry divided by it is exactly c_q.
+  for (let q = 0; q < ortho.penaltyRows; q++) {
+    const j = off + q;
+    sums[j].addProduct(ortho.penalty[j] / data.scale[j], r[n + q]);
+  }
+  return Float64Array.from(sums, (s, j) => -s.value() * data.scale[j]);
 }

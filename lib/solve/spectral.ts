@@ -12,7 +12,6 @@
  *
  * @module
  */
-import { applyQt, householderQR, rEntry } from "../numeric/qr.ts";
 import { jacobiSvd } from "../numeric/svd.ts";
 
 /** A ridge problem reduced to p numbers per direction. */
@@ -29,7 +28,11 @@ export interface SpectralForm {
   readonly rho2: number;
 }
 
-/** Triangular factor R (p×p, as columns) and z, ρ² of a least-squares problem. */
+/**
+ * Triangular factor R (p×p, as columns) and z, ρ² of a least-squares problem: with an intercept,
+ * the trailing block of the factor of [1 Z y], i.e. the centered problem (Golub & Van Loan
+ * §5.3), so the intercept stays unpenalized. Made by `triangularOf` in ./exact.ts.
+ */
 export interface Triangular {
   readonly r: Float64Array[];
   readonly z: Float64Array;
@@ -37,57 +40,14 @@ export interface Triangular {
 }
 
 /**
- * R, z and ρ² of [1 Z y] (or [Z y] without intercept): the trailing block is the centered
- * problem, so the intercept stays unpenalized (Golub & Van Loan §5.3). Plain double QR.
- *
- * @example
- * ```ts
- * import { triangularFactor } from "./spectral.ts";
- * const t = triangularFactor(3, 1, Float64Array.of(0, 1, 2), Float64Array.of(1, 3, 5), true);
- * console.log(t.rho2 < 1e-20); // true
- * ```
- */
-export function triangularFactor(
-  n: number,
-  p: number,
-  z: Float64Array,
-  y: Float64Array,
-  intercept: boolean,
-): Triangular {
-  const off = intercept ? 1 : 0;
-  const cols: Float64Array[] = [];
-  if (intercept) cols.push(new Float64Array(n).fill(1));
-  cols.push(...designColumns(z, n, p));
-  const qr = householderQR(cols, n);
-  const qty = Float64Array.from(y);
-  applyQt(qr, qty);
-  const r = Array.from({ length: p }, (_, q) => {
-    const col = new Float64Array(p);
-    for (let i = 0; i <= q; i++) col[i] = rEntry(qr, i + off, q + off);
-    return col;
-  });
-  let rho2 = 0;
-  for (let i = off + p; i < n; i++) rho2 += qty[i] * qty[i];
-  return { r, z: qty.slice(off, off + p), rho2 };
-}
-
-/** The columns of a row-major n×p matrix, each its own array (copied). */
-export function designColumns(z: Float64Array, n: number, p: number): Float64Array[] {
-  const cols = Array.from({ length: p }, () => new Float64Array(n));
-  for (let i = 0; i < n; i++) {
-    const row = i * p;
-    for (let q = 0; q < p; q++) cols[q][i] = z[row + q];
-  }
-  return cols;
-}
-
-/**
  * Spectral form of the reduced problem for scales `s` and penalty weights `gamma` (> 0).
  *
  * @example
  * ```ts
- * import { spectralForm, triangularFactor, degreesOfFreedom } from "./spectral.ts";
- * const t = triangularFactor(3, 1, Float64Array.of(0, 1, 2), Float64Array.of(1, 3, 5), true);
+ * import { degreesOfFreedom, spectralForm } from "./spectral.ts";
+ * import { factorData, triangularOf } from "./exact.ts";
+ * const design = { n: 3, p: 1, hi: Float64Array.of(0, 1, 2), lo: new Float64Array(3) };
+ * const t = triangularOf(factorData(design, true), Float64Array.of(1, 3, 5));
  * const sf = spectralForm(t, Float64Array.of(1), Float64Array.of(1));
  * console.log(degreesOfFreedom(sf, 0)); // 1
  * ```
@@ -156,8 +116,10 @@ export function coefficientsAt(sf: SpectralForm, lambda: number): Float64Array {
  *
  * @example
  * ```ts
- * import { budgetAt, lambdaForBudget, spectralForm, triangularFactor } from "./spectral.ts";
- * const t = triangularFactor(4, 1, Float64Array.of(0, 1, 2, 3), Float64Array.of(1, 2, 2, 4), true);
+ * import { budgetAt, lambdaForBudget, spectralForm } from "./spectral.ts";
+ * import { factorData, triangularOf } from "./exact.ts";
+ * const design = { n: 4, p: 1, hi: Float64Array.of(0, 1, 2, 3), lo: new Float64Array(4) };
+ * const t = triangularOf(factorData(design, true), Float64Array.of(1, 2, 2, 4));
  * const sf = spectralForm(t, Float64Array.of(1), Float64Array.of(1));
  * const lam = lambdaForBudget(sf, 0.25);
  * console.log(Math.abs(budgetAt(sf, lam) - 0.25) < 1e-12); // true
