@@ -51,6 +51,7 @@ export {
 } from "./lib/fit/fit.ts";
 export {
   type CurvePoint,
+  type CurveResult,
   type Progress,
   type ProgressListener,
   sweep,

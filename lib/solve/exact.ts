@@ -16,7 +16,15 @@
  *
  * @module
  */
-import { applyQ, applyQt, type HouseholderQR, householderQR, rEntry } from "../numeric/qr.ts";
+import {
+  applyQ,
+  applyQt,
+  type HouseholderQR,
+  householderQR,
+  rEntry,
+  solveR,
+  solveRt,
+} from "../numeric/qr.ts";
 import { DDAccumulator } from "../numeric/dd.ts";
 import type { DesignBlock } from "../design/types.ts";
 import type { Triangular } from "./spectral.ts";
@@ -259,31 +267,9 @@ function augmentedFactor(data: DataFactor, root: Float64Array | undefined): Augm
       out.set(head.subarray(nc), n);
       return out;
     },
-    solveR: (b) => solveUpper(small, b),
-    solveRt: (b) => solveUpperTransposed(small, b),
+    solveR: (b) => solveR(small, b),
+    solveRt: (b) => solveRt(small, b),
   };
-}
-
-function solveUpper(qr: HouseholderQR, b: ArrayLike<number>): Float64Array {
-  const n = qr.n;
-  const x = new Float64Array(n);
-  for (let i = n - 1; i >= 0; i--) {
-    let s = b[i];
-    for (let j = i + 1; j < n; j++) s -= qr.cols[j][i] * x[j];
-    x[i] = s / qr.rdiag[i];
-  }
-  return x;
-}
-
-function solveUpperTransposed(qr: HouseholderQR, b: ArrayLike<number>): Float64Array {
-  const n = qr.n;
-  const x = new Float64Array(n);
-  for (let j = 0; j < n; j++) {
-    let s = b[j];
-    for (let i = 0; i < j; i++) s -= qr.cols[j][i] * x[i];
-    x[j] = s / qr.rdiag[j];
-  }
-  return x;
 }
 
 /** f = b − r − A x in double-double (data rows from the row-major design, then penalty rows). */

@@ -7,23 +7,9 @@
  */
 import type { ModelChoiceRecord } from "../record/mod.ts";
 import type { VegaLiteSpec } from "../views/render.ts";
-import { recordCurveSource } from "../views/display.ts";
-import { comparisonChart, type ComparisonSource } from "../views/charts/comparison.ts";
+import { recordComparisonSource, recordCurveSource } from "../views/display.ts";
+import { comparisonChart } from "../views/charts/comparison.ts";
 import { validationCurveChart } from "../views/charts/validation.ts";
-
-/** A recorded comparison in the shape the comparison chart reads. */
-function comparisonSource(record: ModelChoiceRecord): ComparisonSource {
-  const comparison = record.comparison!;
-  return {
-    target: record.target,
-    folds: record.folds,
-    best: comparison.best,
-    candidates: comparison.candidates.map((c, i) => ({
-      ...c,
-      sweep: recordCurveSource(record.models[i], record),
-    })),
-  };
-}
 
 /**
  * The evidence chart of a record as a Vega-Lite v5 spec (inline data only): the validation
@@ -44,9 +30,10 @@ function comparisonSource(record: ModelChoiceRecord): ComparisonSource {
  * ```
  */
 export function evidenceSpec(record: ModelChoiceRecord): VegaLiteSpec {
-  return record.comparison === null
+  const comparison = recordComparisonSource(record);
+  return comparison === null
     ? validationCurveChart(recordCurveSource(record.models[0], record))
-    : comparisonChart(comparisonSource(record));
+    : comparisonChart(comparison);
 }
 
 /**

@@ -11,7 +11,7 @@
 import { CurbfitError } from "../errors/error.ts";
 import { deepFreeze } from "../common/freeze.ts";
 import type { LearnedTerm, Term } from "../design/types.ts";
-import type { Fit, FitSpec } from "../fit/fit.ts";
+import type { FitSpec } from "../fit/fit.ts";
 import { fitFromMoments } from "../fit/summary_fit.ts";
 import { penaltyWeights, ridge } from "../fit/penalty.ts";
 import { emptyMoments, mergeMoments, type Moments, removeMoments } from "../sweep/moments.ts";
@@ -20,7 +20,7 @@ import { crossValidate, curvePoints, type FoldSummarySource } from "../sweep/eng
 import type { LambdaGrid } from "../sweep/grid.ts";
 import { runStepsAsync } from "../common/steps.ts";
 import { type Choice, choose, type SelectionRule } from "../sweep/select.ts";
-import type { CurvePoint, Progress } from "../sweep/sweep.ts";
+import type { CurveResult, Progress } from "../sweep/sweep.ts";
 import { FOLD_HASH } from "./hash.ts";
 import { checkFoldsFilled, type FoldRanges, learnOnRanges } from "./ranges.ts";
 
@@ -124,22 +124,12 @@ export interface HashFolds {
  * const best = (r: ScaleSweepResult) => r.curve[r.chosen.index].cvMean;
  * ```
  */
-export interface ScaleSweepResult {
-  readonly target: string;
-  readonly n: number;
-  readonly names: readonly string[];
-  readonly orders: readonly number[];
-  readonly gamma: readonly number[];
-  readonly standardize: boolean;
-  readonly intercept: boolean;
+export interface ScaleSweepResult extends CurveResult {
+  /**
+   * Hash folds. `curve` is per λ as in `sweep`, but closed-form leave-one-out is not computed
+   * (`loo` is null), and `fit` is fitted from the all-rows summary (lib/fit/summary_fit.ts).
+   */
   readonly folds: HashFolds;
-  /** Per λ as in `sweep` (closed-form leave-one-out is not computed: `loo` is null). */
-  readonly curve: readonly CurvePoint[];
-  readonly minimum: Choice;
-  readonly chosen: Choice;
-  readonly notes: readonly string[];
-  /** The chosen model fitted from the all-rows summary (lib/fit/summary_fit.ts). */
-  readonly fit: Fit;
   /** Where the rows came from (file path, "stream", a SQL table). */
   readonly source: string;
   /** Passes over the data (reads or queries), including any fold re-read. */

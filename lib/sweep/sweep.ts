@@ -93,10 +93,15 @@ export interface CurvePoint {
 }
 
 /**
- * Everything a sweep found. Frozen. In a notebook it shows its validation curve (a
- * non-enumerable `[Symbol.for("Jupyter.display")]` method; see lib/views/display.ts).
+ * What every cross-validated sweep reports, wherever its rows live (memory, a stream, SQL).
+ *
+ * @example
+ * ```ts
+ * import type { CurveResult } from "./sweep.ts";
+ * const chosenError = (r: CurveResult) => r.curve[r.chosen.index].cvMean;
+ * ```
  */
-export interface SweepResult {
+export interface CurveResult {
   readonly target: string;
   readonly n: number;
   readonly names: readonly string[];
@@ -104,7 +109,6 @@ export interface SweepResult {
   readonly gamma: readonly number[];
   readonly standardize: boolean;
   readonly intercept: boolean;
-  readonly folds: FoldPlan;
   readonly curve: readonly CurvePoint[];
   /** The grid point with the smallest mean CV error. */
   readonly minimum: Choice;
@@ -112,8 +116,17 @@ export interface SweepResult {
   readonly chosen: Choice;
   /** Plain-language notes, e.g. the minimum sitting on an edge of the grid. */
   readonly notes: readonly string[];
-  /** The chosen model refit on all rows with the exact solver. */
+  /** The chosen model on all rows. */
   readonly fit: Fit;
+}
+
+/**
+ * Everything an in-memory sweep found. Frozen. `fit` is refit on all rows with the exact
+ * solver. In a notebook it shows its validation curve (a non-enumerable
+ * `[Symbol.for("Jupyter.display")]` method; see lib/views/display.ts).
+ */
+export interface SweepResult extends CurveResult {
+  readonly folds: FoldPlan;
   /** Data fingerprint and requests as given, for the model-choice record (lib/record). */
   readonly provenance: SweepProvenance;
 }
