@@ -210,7 +210,7 @@ Deno.test("shrinkage path: one line per coefficient, chosen λ on both panels, b
   assert.ok(texts.includes("budget C(λ)"));
   const path = layerRows(spec, "term").flat();
   const chosen = SWEEP.curve[SWEEP.chosen.index];
-  const atChosen = path.filter((r) => r.lambda === chosen.lambda).map((r) => r.w);
+  const atChosen = path.filter((r) => r.strength === chosen.strength).map((r) => r.w);
   assert.deepEqual(atChosen, [...chosen.path]);
 });
 
@@ -225,7 +225,7 @@ Deno.test("fitted curve: points, three exact curves, shaded outside; several inp
   const rows = layerRows(spec, "curve").flat();
   const curves = [...new Set(rows.map((r) => r.curve))] as string[];
   assert.equal(curves.length, 3);
-  const lambdas = [SWEEP.chosen.lambda, SWEEP.minimum.lambda, SWEEP.curve[0].lambda];
+  const lambdas = [SWEEP.chosen.strength, SWEEP.minimum.strength, SWEEP.curve[0].strength];
   curves.forEach((name, k) => {
     const mine = rows.filter((r) => r.curve === name);
     const model = fit(COLS, { target: "y", terms: [legendre("x", 8)], lambda: lambdas[k] });

@@ -13,10 +13,10 @@ Deno.test("min rule takes the first smallest mean; one-SE takes the largest λ w
   const lambdas = [0.01, 0.1, 1, 10, 100];
   const mean = [2.0, 1.5, 1.2, 1.28, 1.9];
   const se = [0.1, 0.1, 0.1, 0.1, 0.1];
-  assert.deepEqual(choose("min", lambdas, mean, se), { rule: "min", index: 2, lambda: 1 });
-  assert.deepEqual(choose("one-se", lambdas, mean, se), { rule: "one-se", index: 3, lambda: 10 });
-  assert.equal(choose("one-se", lambdas, [1, 1, 1, 1, 1], se).lambda, 100, "ties: largest λ");
-  assert.equal(choose("min", lambdas, [1, 1, 1, 1, 1], se).lambda, 0.01, "ties: first");
+  assert.deepEqual(choose("min", lambdas, mean, se), { rule: "min", index: 2, strength: 1 });
+  assert.deepEqual(choose("one-se", lambdas, mean, se), { rule: "one-se", index: 3, strength: 10 });
+  assert.equal(choose("one-se", lambdas, [1, 1, 1, 1, 1], se).strength, 100, "ties: largest λ");
+  assert.equal(choose("min", lambdas, [1, 1, 1, 1, 1], se).strength, 0.01, "ties: first");
   assert.throws(() => choose("median" as "min", lambdas, mean, se), CurbfitError);
 });
 

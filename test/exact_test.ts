@@ -31,7 +31,7 @@ function normalEquationResidual(m: ReturnType<typeof fit>, cols: Record<string, 
       for (let k = 0; k <= p; k++) fitted += col(i, k) * theta[k];
       acc.addProduct(col(i, j), fitted - y[i]);
     }
-    if (j > 0) acc.add(s.lambda * s.gamma[j - 1] * s.sds[j - 1] ** 2 * theta[j]);
+    if (j > 0) acc.add(s.strength * s.gamma[j - 1] * s.sds[j - 1] ** 2 * theta[j]);
     let zty = 0;
     for (let i = 0; i < n; i++) zty += col(i, j) * y[i];
     worst = Math.max(worst, Math.abs(acc.value()));
@@ -78,13 +78,13 @@ Deno.test("budget → λ → budget round trip to 1e-10; a loose budget gives λ
   for (const share of [0.9, 0.5, 0.1, 1e-3]) {
     const budget = share * free.budget;
     const m = fit(cols, { target: "y", terms, budget }).summary;
-    assert.ok(m.lambda > 0);
+    assert.ok(m.strength > 0);
     assert.ok(relErr(m.budget, budget) < 1e-10, `share ${share}: ${m.budget} vs ${budget}`);
-    const again = fit(cols, { target: "y", terms, lambda: m.lambda }).summary;
+    const again = fit(cols, { target: "y", terms, lambda: m.strength }).summary;
     assert.ok(relErr(again.budget, budget) < 1e-10);
   }
   const loose = fit(cols, { target: "y", terms, budget: 2 * free.budget }).summary;
-  assert.equal(loose.lambda, 0);
+  assert.equal(loose.strength, 0);
 });
 
 Deno.test("coefficients on both scales agree: w*_q = s_q w_q and the intercept at the means", () => {

@@ -638,7 +638,7 @@ Deno.test("curb shows progress through the sink and leaves the result in its pla
   } else {
     assert.equal(
       last["text/plain"],
-      `chosen λ = ${result.chosen.lambda.toPrecision(4)} (rule min), CV error ` +
+      `chosen λ = ${result.chosen.strength.toPrecision(4)} (rule min), CV error ` +
         `${result.curve[result.chosen.index].cvMean.toPrecision(4)} ± ` +
         `${result.curve[result.chosen.index].cvSe.toPrecision(2)}`,
       "a plain summary replaces progress while results have no display of their own",

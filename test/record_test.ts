@@ -309,7 +309,7 @@ Deno.test("loadRecord: predictions equal the original fit's without refitting", 
   );
   assert.deepEqual(b.outside, a.outside, "extrapolation counts come from the recorded ranges");
   assert.deepEqual(loaded.fit.summary.coefficients, s.fit.summary.coefficients);
-  assert.equal(loaded.fit.summary.lambda, s.chosen.lambda);
+  assert.equal(loaded.fit.summary.strength, s.chosen.strength);
 });
 
 Deno.test("loadRecord: categories, products and powers rebuild from the recorded summaries", () => {

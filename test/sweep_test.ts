@@ -136,7 +136,7 @@ Deno.test("GCV equals (RSS/n)/(1 − (df+1)/n)² of the exact fit (Golub, Heath 
     folds: { k: 5, seed: 2 },
   });
   s.curve.forEach((pt) => {
-    const m = fit(tableFromColumns(cols), { target: "y", terms, lambda: pt.lambda });
+    const m = fit(tableFromColumns(cols), { target: "y", terms, lambda: pt.strength });
     const gcv = m.summary.trainMse / (1 - (m.summary.df + 1) / 50) ** 2;
     assert.ok(relErr(pt.gcv, gcv) < 1e-9);
     assert.ok(relErr(pt.df, m.summary.df) < 1e-9);
@@ -154,9 +154,9 @@ Deno.test("the chosen model is the exact refit on all rows at the chosen λ", ()
     folds: { k: 6, seed: 4 },
     rule: "one-se",
   });
-  const direct = fit(tableFromColumns(cols), { target: "y", terms, lambda: s.chosen.lambda });
+  const direct = fit(tableFromColumns(cols), { target: "y", terms, lambda: s.chosen.strength });
   assert.deepEqual(s.fit.summary, direct.summary);
-  assert.ok(s.chosen.lambda >= s.minimum.lambda);
+  assert.ok(s.chosen.strength >= s.minimum.strength);
 });
 
 Deno.test("automatic grid spans df ≈ p down to df < 1", () => {
@@ -217,7 +217,7 @@ Deno.test("properties (fast-check, seeded): training error rises, df and C fall 
           assert.ok(b.df <= a.df * (1 + 1e-12), "df non-increasing");
           assert.ok(b.budget <= a.budget * (1 + 1e-12), "C non-increasing");
         }
-        assert.ok(s.chosen.lambda >= s.minimum.lambda);
+        assert.ok(s.chosen.strength >= s.minimum.strength);
       },
     ),
     { seed: 20261201, numRuns: 40 },

@@ -10,6 +10,7 @@ import type { Table } from "../table/types.ts";
 import { summarizeData } from "../record/mod.ts";
 import type { Block } from "../statement/blocks.ts";
 import { coefficientTable, describePenalty, domainCaution } from "../statement/sections.ts";
+import { isSparse, strengthSymbol } from "../fit/penalty.ts";
 import { formatNumber } from "../views/table.ts";
 
 /**
@@ -37,7 +38,11 @@ export function fitBlocks(f: Fit, table: Table): Block[] {
         `${s.n} rows from `,
         { code: table.source },
         `; terms ${f.terms.map((t) => t.term.label).join(", ")}; ` +
-        `${describePenalty(s.penalty, s.standardize, s.hasIntercept)}; λ = ${n(s.lambda)} ` +
+        `${
+          isSparse(s.penalty)
+            ? s.objective
+            : describePenalty(s.penalty, s.standardize, s.hasIntercept)
+        }; ${strengthSymbol(s.scale)} = ${n(s.strength)} ` +
         `(penalty budget C = ${n(s.budget)}).`,
       ],
     },

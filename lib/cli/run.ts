@@ -311,7 +311,9 @@ const RUNNERS: Readonly<Record<string, Runner>> = {
     const paths = await writeFiles(outDir(parsed), files);
     const s = model.summary;
     io.out(
-      showControls(`curbfit fit: ${s.target} from ${table.source}, ${s.n} rows, λ = ${s.lambda}`) +
+      showControls(
+        `curbfit fit: ${s.target} from ${table.source}, ${s.n} rows, λ = ${s.strength}`,
+      ) +
         `\n\n${formatTextTable(coefficients(s), { digits: 6 })}\n\n` +
         `training MSE ${s.trainMse.toPrecision(4)}, df ${s.df.toPrecision(4)}\n\n` +
         wroteLines(paths, files) + "\n" +

@@ -7,6 +7,11 @@
  * else 1. Per observation this is E_in + (λ/N)·Σ γ_q w*_q². The intercept b is never penalized.
  * The constraint form minimizes E_in subject to Σ γ_q (s_q w_q)² ≤ C.
  *
+ * With `penalty: lasso()` or `elasticNet({ mix })` the strength is `alpha`, in the 1/(2N)
+ * convention: minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α·[ρ Σ_q |w*_q| + ((1 − ρ)/2) Σ_q w*_q²],
+ * solved by coordinate descent (sparse_fit.ts). `lambda`/`budget` belong to ridge and `alpha` to
+ * the sparse penalties; mixing them is an error, and every summary says its `scale`.
+ *
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
@@ -19,7 +24,16 @@ import { factorData, solveRefined, triangularOf } from "../solve/exact.ts";
 import { degreesOfFreedom, lambdaForBudget, spectralForm } from "../solve/spectral.ts";
 import { jacobiSvd } from "../numeric/svd.ts";
 import { DDAccumulator } from "../numeric/dd.ts";
-import { penaltyWeights, ridge, type RidgePenalty } from "./penalty.ts";
+import {
+  checkStrengthOptions,
+  isSparse,
+  objectiveText,
+  type Penalty,
+  penaltyWeights,
+  ridge,
+  type StrengthScale,
+} from "./penalty.ts";
+import { allRowsPath, sparseSummary } from "./sparse_fit.ts";
 import { columnScales } from "./scale.ts";
 import { fitBundle, JUPYTER_DISPLAY } from "../views/display.ts";
 
@@ -32,12 +46,16 @@ export interface FitSpec {
   readonly target: string;
   /** Terms of the model (the intercept is separate; see `intercept`). */
   readonly terms: readonly Term[];
-  /** Penalty; default `ridge()` (γ_q = 1). */
-  readonly penalty?: RidgePenalty;
-  /** Penalty strength λ ≥ 0 in sum-of-squares units; default 0 (ordinary least squares). */
+  /** Penalty; default `ridge()` (γ_q = 1); or `lasso()` / `elasticNet({ mix })`. */
+  readonly penalty?: Penalty;
+  /** Ridge only: strength λ ≥ 0 in sum-of-squares units; default 0 (ordinary least squares). */
   readonly lambda?: number;
-  /** Instead of λ: the budget C > 0 of the constraint Σ γ_q w*_q² ≤ C. */
+  /** Ridge only, instead of λ: the budget C > 0 of the constraint Σ γ_q w*_q² ≤ C. */
   readonly budget?: number;
+  /** Lasso / elastic net only (required there): strength α > 0 in the 1/(2N) convention. */
+  readonly alpha?: number;
+  /** Lasso / elastic net only: largest scaled KKT violation accepted (default 10⁻⁷). */
+  readonly tolerance?: number;
   /** Standardize design columns with training statistics (default true). */
   readonly standardize?: boolean;
   /** Fit an unpenalized intercept (default true). */
@@ -59,14 +77,27 @@ export interface FitSummary {
   readonly names: readonly string[];
   /** Polynomial order of each design column. */
   readonly orders: readonly number[];
-  readonly penalty: RidgePenalty;
-  /** γ_q per design column. */
+  readonly penalty: Penalty;
+  /** Which convention `strength` is on: ridge λ ("lambda") or sparse α ("alpha"). */
+  readonly scale: StrengthScale;
+  /** The minimized objective, stated exactly. */
+  readonly objective: string;
+  /** γ_q per design column (all 1 for a sparse penalty). */
   readonly gamma: readonly number[];
-  readonly lambda: number;
-  /** Budget C(λ) = Σ γ_q (s_q w_q)² met by the solution. */
+  /** Penalty strength: ridge λ (sum-of-squares units) or sparse α (1/(2N) units); see `scale`. */
+  readonly strength: number;
+  /**
+   * Ridge: budget C(λ) = Σ γ_q (s_q w_q)² met by the solution. Sparse: the penalty's value per
+   * unit α, ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (‖w*‖₁ for the lasso).
+   */
   readonly budget: number;
-  /** Effective degrees of freedom Σ σ²/(σ²+λ) (intercept not counted). */
+  /**
+   * Ridge: effective degrees of freedom Σ σ²/(σ²+λ). Sparse: the nonzero count (intercept not
+   * counted).
+   */
   readonly df: number;
+  /** Number of nonzero coefficients. */
+  readonly nonzero: number;
   /** Intercept and coefficients on the original scale of the data. */
   readonly intercept: number;
   readonly coefficients: readonly number[];
@@ -83,8 +114,16 @@ export interface FitSummary {
   readonly residualSd: number;
   /** 2-norm condition number of the (centered) standardized design. */
   readonly condition: number;
-  /** Iterative-refinement steps of the exact solver. */
+  /** Iterative-refinement steps of the exact solver (0 for sparse fits). */
   readonly refinementSteps: number;
+  /** Sparse fits: coordinate-descent report (KKT violation, duality gap per observation); else null. */
+  readonly descent: {
+    readonly passes: number;
+    readonly violation: number;
+    readonly converged: boolean;
+    readonly gap: number;
+    readonly tolerance: number;
+  } | null;
 }
 
 /** Largest condition number accepted at λ = 0 before the design is called rank deficient. */
@@ -146,10 +185,11 @@ export class Fit {
  * const x = Array.from({ length: 20 }, (_, i) => i / 19);
  * const y = x.map((v) => Math.sin(3 * v));
  * const m = fit({ x, y }, { target: "y", terms: [legendre("x", 8)], penalty: ridge(), budget: 1 });
- * console.log(m.summary.lambda, m.summary.budget); // λ found for C = 1, and C = 1
+ * console.log(m.summary.strength, m.summary.budget); // λ found for C = 1, and C = 1
  * ```
  */
 export function fit(data: Table | TableInput, spec: FitSpec): Fit {
+  checkStrength(spec);
   const table = toTable(data);
   const { y, terms, design } = prepare(table, spec);
   return fitPrepared(spec, terms, design, y);
@@ -182,6 +222,17 @@ export function fitPrepared(
   const factor = factorData(design.block, intercept);
   const tri = triangularOf(factor, y);
   const condition = conditionNumber(tri.r, sds);
+  if (isSparse(penalty)) {
+    const options = { standardize, intercept, tolerance: spec.tolerance };
+    const path = allRowsPath(design, y, penalty, [spec.alpha as number], options);
+    const summary = sparseSummary(path, path.solutions[0], {
+      target: spec.target,
+      design,
+      penalty,
+      condition,
+    });
+    return new Fit(summary, terms);
+  }
   const sf = spectralForm(tri, sds, gamma);
   const lambda = spec.budget !== undefined ? lambdaForBudget(sf, spec.budget) : spec.lambda ?? 0;
   if (lambda === 0) checkRank(design, tri.r, sds, condition, n, intercept);
@@ -198,10 +249,13 @@ export function fitPrepared(
     names: [...design.names],
     orders: [...design.orders],
     penalty,
+    scale: "lambda",
+    objective: objectiveText(penalty),
     gamma: Array.from(gamma),
-    lambda,
+    strength: lambda,
     budget: wStd.reduce((s, v, q) => s + gamma[q] * v * v, 0),
     df,
+    nonzero: w.filter((v) => v !== 0).length,
     intercept: sol.intercept,
     coefficients: w,
     standardized: {
@@ -216,6 +270,7 @@ export function fitPrepared(
     residualSd: residualDf > 0 ? Math.sqrt(sol.rss / residualDf) : NaN,
     condition,
     refinementSteps: sol.iterations,
+    descent: null,
   });
   return new Fit(summary, terms);
 }
@@ -235,6 +290,21 @@ function checkSpec(spec: FitSpec): void {
       "no terms were given",
       'Pass at least one term, e.g. terms: [legendre("x", 5)]',
       { option: "terms" },
+    );
+  }
+}
+
+function checkStrength(spec: FitSpec): void {
+  const penalty = spec.penalty ?? ridge();
+  checkStrengthOptions(penalty, spec as unknown as Record<string, unknown>);
+  if (isSparse(penalty) && !(Number.isFinite(spec.alpha) && (spec.alpha as number) > 0)) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      spec.alpha === undefined
+        ? `a ${penalty.kind} fit needs alpha, and none was given`
+        : `alpha is ${spec.alpha}, but it must be a finite number > 0`,
+      "Give alpha > 0 in the 1/(2N) convention (or use sweep with alphas to choose it)",
+      { option: "alpha" },
     );
   }
   if (spec.lambda !== undefined && spec.budget !== undefined) {

@@ -16,7 +16,7 @@ import type { LearnedTerm } from "../design/types.ts";
 import type { Moments } from "../sweep/moments.ts";
 import { decompose, solutionAt } from "../sweep/spectrum.ts";
 import { Fit, type FitSpec, type FitSummary } from "./fit.ts";
-import { penaltyWeights, ridge } from "./penalty.ts";
+import { isSparse, objectiveText, penaltyWeights, ridge } from "./penalty.ts";
 
 /** Largest condition number accepted at λ = 0 (as the row-based fit). */
 const RANK_LIMIT = 1e15;
@@ -51,6 +51,14 @@ export function fitFromMoments(
   const standardize = spec.standardize ?? true;
   const intercept = spec.intercept ?? true;
   const penalty = spec.penalty ?? ridge();
+  if (isSparse(penalty)) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `a fit from summaries (streams, SQL) takes a ridge penalty, not ${penalty.kind}`,
+      "Load the rows and use fit or sweep with lasso() / elasticNet() and alpha",
+      { option: "penalty" },
+    );
+  }
   const gamma = penaltyWeights(penalty, orders);
   const lambda = spec.lambda ?? 0;
   if (spec.budget !== undefined) {
@@ -97,10 +105,13 @@ export function fitFromMoments(
     names,
     orders,
     penalty,
+    scale: "lambda",
+    objective: objectiveText(penalty),
     gamma: Array.from(gamma),
-    lambda,
+    strength: lambda,
     budget: sol.budget,
     df: sol.df,
+    nonzero: w.filter((v) => v !== 0).length,
     intercept: sol.intercept,
     coefficients: w,
     standardized: {
@@ -115,6 +126,7 @@ export function fitFromMoments(
     residualSd: residualDf > 0 ? Math.sqrt(sol.rss / residualDf) : NaN,
     condition,
     refinementSteps: 0,
+    descent: null,
   });
   return new Fit(summary, terms);
 }

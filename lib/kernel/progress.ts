@@ -97,7 +97,7 @@ let displays = 0;
  * const progress = progressDisplay({ title: "sweeping 100 λ values over 5 folds" });
  * await progress.start();
  * const s = sweep(data, { target: "y", terms: [legendre("x", 6)], folds: { k: 5, seed: 1 }, progress: progress.listener });
- * await progress.finish({ "text/plain": `chosen λ = ${s.chosen.lambda}` });
+ * await progress.finish({ "text/plain": `chosen λ = ${s.chosen.strength}` });
  * ```
  */
 export function progressDisplay(options: ProgressOptions): ProgressDisplay {

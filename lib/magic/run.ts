@@ -130,7 +130,7 @@ async function resultBundle(result: CurbResult): Promise<Bundle> {
   const show = (result as unknown as Record<symbol, unknown>)[Symbol.for("Jupyter.display")];
   if (typeof show === "function") return await show.call(result) as Bundle;
   const lines = "candidates" in result ? result.verdict : [
-    `chosen λ = ${result.chosen.lambda.toPrecision(4)} (rule ${result.chosen.rule}), ` +
+    `chosen λ = ${result.chosen.strength.toPrecision(4)} (rule ${result.chosen.rule}), ` +
     `CV error ${result.curve[result.chosen.index].cvMean.toPrecision(4)} ± ` +
     `${result.curve[result.chosen.index].cvSe.toPrecision(2)}`,
     ...result.notes,

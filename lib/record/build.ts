@@ -5,6 +5,7 @@
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
+import { isSparse, type RidgePenalty } from "../fit/penalty.ts";
 import { deepFreeze } from "../common/freeze.ts";
 import type { Json } from "../design/types.ts";
 import { assignmentDigest, type FoldPlan } from "../folds/mod.ts";
@@ -52,7 +53,7 @@ export interface RecordOptions {
  * const y = x.map((v, i) => Math.sin(3 * v) + 0.05 * Math.cos(7 * i));
  * const s = sweep({ x, y }, { target: "y", terms: [legendre("x", 6)], folds: { k: 5, seed: 4 } });
  * const record = recordOf(s);
- * console.log(record.schema, record.folds.seed, record.models[0].choice.lambda === s.chosen.lambda);
+ * console.log(record.schema, record.folds.seed, record.models[0].choice.lambda === s.chosen.strength);
  * ```
  */
 export function recordOf(
@@ -186,8 +187,7 @@ export function foldsSection(
  * ```
  */
 export function modelSection(s: SweepResult, name: string | null): ModelSection {
-  const summary = s.fit.summary;
-  const penalty = summary.penalty;
+  const penalty = ridgePenaltyOf(s, name);
   return {
     name,
     terms: s.fit.terms.map((t) => ({
@@ -213,17 +213,34 @@ export function modelSection(s: SweepResult, name: string | null): ModelSection 
       rule: s.chosen.rule,
       definition: ruleDefinition(s.chosen.rule),
       index: s.chosen.index,
-      lambda: s.chosen.lambda,
-      minimum: { index: s.minimum.index, lambda: s.minimum.lambda },
+      lambda: s.chosen.strength,
+      minimum: { index: s.minimum.index, lambda: s.minimum.strength },
       notes: [...s.notes],
     },
     final: finalSection(s),
   };
 }
 
+/**
+ * The ridge penalty of a swept model. Records (schema curbfit.model-choice/1) hold ridge sweeps
+ * only: a lasso / elastic-net sweep gets a clear error instead of a record that would misstate it.
+ */
+function ridgePenaltyOf(s: SweepResult, name: string | null): RidgePenalty {
+  const penalty = s.fit.summary.penalty;
+  if (!isSparse(penalty)) return penalty;
+  throw new CurbfitError(
+    "BAD_OPTION",
+    `${name === null ? "the sweep" : `candidate ${name}`} uses a ${penalty.kind} penalty, and ` +
+      "model-choice records hold ridge sweeps only for now",
+    "Keep the sweep result itself (its curve, chosen α and fit) as the evidence, or record a " +
+      "ridge sweep",
+    { option: "penalty" },
+  );
+}
+
 function gridSection(s: SweepResult): GridSection {
   const request = s.provenance.lambdas;
-  const values = s.curve.map((c) => c.lambda);
+  const values = s.curve.map((c) => c.strength);
   if (Array.isArray(request)) return { kind: "explicit", request: null, values };
   const auto = (request ?? {}) as { count?: number; min?: number; max?: number };
   return {
@@ -237,7 +254,7 @@ function cvSection(s: SweepResult): CvSection {
   const column = (pick: (c: SweepResult["curve"][number]) => number) => s.curve.map(pick);
   return {
     definitions: [...CV_DEFINITIONS],
-    lambda: column((c) => c.lambda),
+    lambda: column((c) => c.strength),
     cvMean: column((c) => c.cvMean),
     cvSe: column((c) => c.cvSe),
     trainMse: column((c) => c.trainMse),
@@ -255,7 +272,7 @@ function finalSection(s: SweepResult): FinalSection {
   const f = s.fit.summary;
   return {
     n: f.n,
-    lambda: f.lambda,
+    lambda: f.strength,
     budget: f.budget,
     df: f.df,
     names: [...f.names],
@@ -296,7 +313,7 @@ export function comparisonSection(c: ComparisonResult): ComparisonSection {
     criterion: COMPARISON_CRITERION,
     candidates: c.candidates.map((o) => ({
       name: o.name,
-      lambda: o.lambda,
+      lambda: o.strength,
       cvMean: o.cvMean,
       cvSe: o.cvSe,
       versusBest: o.versusBest === null ? null : {

@@ -17,7 +17,7 @@ import type { LearnedTerm } from "../design/types.ts";
 import { learnTerms, termFromSpec } from "../design/mod.ts";
 import type { Column, Table } from "../table/types.ts";
 import { Fit, type FitSummary, type Prediction, type TableInput } from "../fit/fit.ts";
-import { ridge } from "../fit/penalty.ts";
+import { objectiveText, ridge } from "../fit/penalty.ts";
 import type { ColumnSummary } from "./fingerprint.ts";
 import { canonicalJson } from "./json.ts";
 import { parseRecord } from "./parse.ts";
@@ -29,7 +29,7 @@ import type { ModelChoiceRecord, ModelSection } from "./schema.ts";
  * @example
  * ```ts
  * import type { LoadedModel } from "./load.ts";
- * const label = (m: LoadedModel) => `${m.name ?? "model"}: λ = ${m.fit.summary.lambda}`;
+ * const label = (m: LoadedModel) => `${m.name ?? "model"}: λ = ${m.fit.summary.strength}`;
  * ```
  */
 export interface LoadedModel {
@@ -124,10 +124,13 @@ function modelFit(
     names: [...f.names],
     orders: m.terms.flatMap((t) => t.orders),
     penalty,
+    scale: "lambda",
+    objective: objectiveText(penalty),
     gamma: [...m.penalty.gamma],
-    lambda: f.lambda,
+    strength: f.lambda,
     budget: f.budget,
     df: f.df,
+    nonzero: f.coefficients.filter((v) => v !== 0).length,
     intercept: f.intercept,
     coefficients: [...f.coefficients],
     standardized: {
@@ -142,6 +145,7 @@ function modelFit(
     residualSd: f.residualSd,
     condition: f.condition,
     refinementSteps: f.refinementSteps,
+    descent: null,
   });
   return new Fit(summary, terms);
 }

@@ -103,7 +103,7 @@ export interface SqlSweepResult extends ScaleSweepResult {
  * const s = await sweepSql(duckdbConnection(con), {
  *   table: "obs", target: "y", terms: [legendre("x", 8)], folds: { k: 5, seed: 2, key: "id" },
  * });
- * console.log(s.chosen.lambda, s.n); // λ, 1000
+ * console.log(s.chosen.strength, s.n); // λ, 1000
  * ```
  */
 export async function sweepSql(

@@ -311,7 +311,7 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
   const minimum = choose("min", cv.lambdas, means, ses);
   const chosen = choose(spec.rule ?? "min", cv.lambdas, means, ses);
   report({ stage: "refit", done: 0, total: 1 });
-  const fit = fitFromMoments(all, terms, { ...spec, lambda: chosen.lambda });
+  const fit = fitFromMoments(all, terms, { ...spec, lambda: chosen.strength });
   report({ stage: "refit", done: 1, total: 1 });
   return deepFreeze({
     target: spec.target,
@@ -344,7 +344,7 @@ function edgeNote(minimum: Choice, count: number): string[] {
   if (count < 2 || (minimum.index !== 0 && minimum.index !== count - 1)) return [];
   const end = minimum.index === 0 ? "smallest" : "largest";
   return [
-    `The smallest CV error is at the ${end} λ of the grid (${minimum.lambda.toPrecision(3)}); ` +
+    `The smallest CV error is at the ${end} λ of the grid (${minimum.strength.toPrecision(3)}); ` +
     "extend the grid past it to see whether the error keeps falling.",
   ];
 }

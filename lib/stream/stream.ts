@@ -94,7 +94,7 @@ const DEFAULT_CHUNK_ROWS = 8192;
  *   terms: [legendre("x", 6)],
  *   folds: { k: 5, seed: 3 },
  * });
- * console.log(result.chosen.lambda, result.rows.used); // λ, 200
+ * console.log(result.chosen.strength, result.rows.used); // λ, 200
  * ```
  */
 export async function sweepStream(

@@ -48,7 +48,8 @@ export interface PairedDifference {
 export interface CandidateOutcome {
   readonly name: string;
   readonly sweep: SweepResult;
-  readonly lambda: number;
+  /** The chosen strength, on this candidate's own scale (`sweep.scale`: ridge λ or sparse α). */
+  readonly strength: number;
   readonly cvMean: number;
   readonly cvSe: number;
   /** Fold errors at the chosen λ, repeat-major. */
@@ -132,7 +133,7 @@ function* compareSteps(
       rule: c.rule ?? options.rule,
       progress: options.progress && ((p) => options.progress!({ ...p, candidate: c.name })),
     };
-    const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
+    const { y, terms, design } = prepare(table, spec);
     sweeps.push(yield* sweepPrepared(table, spec, plan, terms, design, y, source));
   }
   const outcomes = sweeps.map((s, i) => {
@@ -147,7 +148,7 @@ function* compareSteps(
   const results: CandidateOutcome[] = outcomes.map((o, i) => ({
     name: o.name,
     sweep: o.sweep,
-    lambda: o.point.lambda,
+    strength: o.point.strength,
     cvMean: o.point.cvMean,
     cvSe: o.point.cvSe,
     foldMse: o.point.foldMse,
@@ -179,7 +180,7 @@ export function pairedDifference(
 
 function verdictLine(r: CandidateOutcome, best: string): string {
   const fmt = (v: number) => String(Number(v.toPrecision(3)));
-  const at = `CV error ${fmt(r.cvMean)} ± ${fmt(r.cvSe)} at λ = ${fmt(r.lambda)}`;
+  const at = `CV error ${fmt(r.cvMean)} ± ${fmt(r.cvSe)} at λ = ${fmt(r.strength)}`;
   if (r.versusBest === null) return `${r.name}: lowest ${at}.`;
   const d = r.versusBest;
   const diff = `${fmt(d.mean)} ± ${fmt(d.se)}`;

@@ -115,7 +115,7 @@ export function curvePoints(
     const errs = cv.foldMse.map((e) => e[l]);
     const sol = solutionAt(full, lambda);
     return {
-      lambda,
+      strength: lambda,
       cvMean: mean(errs),
       cvSe: standardError(errs, k),
       foldMse: errs,

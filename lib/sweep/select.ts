@@ -18,7 +18,8 @@ export type SelectionRule = "min" | "one-se";
 export interface Choice {
   readonly rule: SelectionRule;
   readonly index: number;
-  readonly lambda: number;
+  /** The chosen strength: ridge λ or sparse α (the sweep result's `scale` says which). */
+  readonly strength: number;
 }
 
 /**
@@ -28,7 +29,7 @@ export interface Choice {
  * ```ts
  * import { choose } from "./select.ts";
  * const lambdas = [0.1, 1, 10];
- * console.log(choose("one-se", lambdas, [1.0, 0.9, 0.95], [0.1, 0.1, 0.1]).lambda); // 10
+ * console.log(choose("one-se", lambdas, [1.0, 0.9, 0.95], [0.1, 0.1, 0.1]).strength); // 10
  * ```
  */
 export function choose(
@@ -39,7 +40,7 @@ export function choose(
 ): Choice {
   let best = 0;
   for (let i = 1; i < lambdas.length; i++) if (mean[i] < mean[best]) best = i;
-  if (rule === "min") return { rule, index: best, lambda: lambdas[best] };
+  if (rule === "min") return { rule, index: best, strength: lambdas[best] };
   if (rule !== "one-se") {
     throw new CurbfitError(
       "BAD_OPTION",
@@ -56,5 +57,5 @@ export function choose(
       break;
     }
   }
-  return { rule, index, lambda: lambdas[index] };
+  return { rule, index, strength: lambdas[index] };
 }

@@ -72,7 +72,8 @@ export interface SweepSpec extends Omit<FitSpec, "lambda" | "budget"> {
 
 /** One grid point of the curve. */
 export interface CurvePoint {
-  readonly lambda: number;
+  /** Grid coordinate: ridge λ or sparse α (the result's `scale` says which). */
+  readonly strength: number;
   /** Mean validation MSE over all folds (and repeats). */
   readonly cvMean: number;
   /** SD of the fold errors / √K. */
@@ -140,7 +141,7 @@ export interface SweepResult extends CurveResult {
  * const x = Array.from({ length: 40 }, (_, i) => i / 39);
  * const y = x.map((v, i) => Math.cos(4 * v) + 0.1 * Math.sin(17 * i));
  * const s = sweep({ x, y }, { target: "y", terms: [legendre("x", 12)], folds: { k: 5, seed: 3 }, rule: "one-se" });
- * console.log(s.chosen.lambda, s.fit.summary.df);
+ * console.log(s.chosen.strength, s.fit.summary.df);
  * ```
  */
 export function sweep(data: Table | TableInput, spec: SweepSpec): SweepResult {
@@ -167,7 +168,7 @@ export function sweepAsync(data: Table | TableInput, spec: SweepSpec): Promise<S
 function* sweepSteps(data: Table | TableInput, spec: SweepSpec): Steps<SweepResult> {
   const table = toTable(data);
   const plan = planFolds(table, spec.folds);
-  const { y, terms, design } = prepare(table, { ...spec, lambda: 0 });
+  const { y, terms, design } = prepare(table, spec);
   const source = sweepSource(table, spec.target, [spec.terms], spec.folds);
   return yield* sweepPrepared(table, spec, plan, terms, design, y, source);
 }
@@ -216,7 +217,7 @@ export function* sweepPrepared(
   const minimum = choose("min", lambdas, means, ses);
   const chosen = choose(spec.rule ?? "min", lambdas, means, ses);
   report({ stage: "refit", done: 0, total: 1 });
-  const model = fitPrepared({ ...spec, lambda: chosen.lambda }, terms, design, y);
+  const model = fitPrepared({ ...spec, lambda: chosen.strength }, terms, design, y);
   report({ stage: "refit", done: 1, total: 1 });
   return deepFreeze(withDisplay({
     target: spec.target,
@@ -302,14 +303,16 @@ function edgeNotes(minimum: Choice, count: number, grid: LambdaGrid | undefined)
   if (minimum.index === 0) {
     return [
       `The smallest CV error is at the smallest λ on the grid (${
-        minimum.lambda.toPrecision(3)
+        minimum.strength.toPrecision(3)
       }); ` +
       (explicit ? "add smaller values" : "lower lambdas.min") + " to see whether it keeps falling.",
     ];
   }
   if (minimum.index === count - 1) {
     return [
-      `The smallest CV error is at the largest λ on the grid (${minimum.lambda.toPrecision(3)}); ` +
+      `The smallest CV error is at the largest λ on the grid (${
+        minimum.strength.toPrecision(3)
+      }); ` +
       (explicit ? "add larger values" : "raise lambdas.max") + " to see whether it keeps falling.",
     ];
   }

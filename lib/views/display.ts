@@ -25,7 +25,7 @@ import type { ScaleSweepResult } from "../stream/finish.ts";
 import type { Table } from "../table/types.ts";
 import type { FoldsSection, ModelChoiceRecord, ModelSection } from "../record/schema.ts";
 import type { VerifyReport } from "../record/report.ts";
-import type { RidgePenalty } from "../fit/penalty.ts";
+import { isSparse, type Penalty, type StrengthScale, strengthSymbol } from "../fit/penalty.ts";
 import { makeBundle, type MimeBundle } from "./bundle.ts";
 import { escapeHtml, escapeMarkdown, showControls } from "./escape.ts";
 import { type Cell, type CellTable, formatHtmlTable, formatTextTable } from "./table.ts";
@@ -108,11 +108,17 @@ function texts(parts: readonly (string | CellTable)[], digits = TABLE_DIGITS): T
   return { plain: plain.join("\n\n"), html: html.join("\n"), markdown: markdown.join("\n\n") };
 }
 
-function lambdaText(lambda: number): string {
-  return lambda === 0 ? "0 (no penalty)" : num(lambda);
+/** "λ = 0.1", "λ = 0 (no penalty)" or "α = 0.01": a strength with its own symbol. */
+function strengthText(scale: StrengthScale, strength: number): string {
+  return `${strengthSymbol(scale)} = ${strength === 0 ? "0 (no penalty)" : num(strength)}`;
 }
 
-function penaltyWords(penalty: RidgePenalty): string {
+function penaltyWords(penalty: Penalty): string {
+  if (isSparse(penalty)) {
+    return penalty.kind === "lasso"
+      ? "lasso (L1), α in the 1/(2N) convention"
+      : `elastic net (L1 share ρ = ${penalty.mix}), α in the 1/(2N) convention`;
+  }
   const { weights, exponent } = penalty;
   if (typeof weights !== "string") return "ridge with given weights γ per column";
   if (weights === "equal") return "ridge / weight decay (γ = 1 for every column)";
@@ -139,7 +145,7 @@ function curveTable(source: CurveSource): CellTable {
     header: ["λ", "CV error", "± SE", "training MSE", "df", "budget C", ""],
     rows: picked.map((i) => {
       const p = curve[i];
-      return [p.lambda, p.cvMean, p.cvSe, p.trainMse, p.df, p.budget, mark(i)];
+      return [p.strength, p.cvMean, p.cvSe, p.trainMse, p.df, p.budget, mark(i)];
     }),
   };
 }
@@ -160,9 +166,16 @@ function sweepTexts(s: SweepWords, finalModel: string, extra: readonly string[] 
     ...(table.rows.length < rows
       ? [`(${table.rows.length} of ${rows} grid rows, evenly spread; result.curve holds all.)`]
       : []),
-    `Chosen model, ${finalModel}: λ = ${lambdaText(f.lambda)}, ` +
-    `${num(f.df)} effective df, budget C = ${num(f.budget)}, training MSE ${num(f.trainMse)}, ` +
-    `intercept ${num(f.intercept)}. Show result.fit for its coefficients.`,
+    f.scale === "alpha"
+      ? `Chosen model, the all-rows coordinate-descent solution (no exact refit: the exact ` +
+        `solver is for quadratic penalties): ${strengthText(f.scale, f.strength)}, ` +
+        `${f.nonzero} of ${f.names.length} coefficients nonzero, training MSE ` +
+        `${num(f.trainMse)}, intercept ${num(f.intercept)}. Objective: ${f.objective}. ` +
+        "Show result.fit for its coefficients. GCV and closed-form leave-one-out are not " +
+        "computed for sparse penalties."
+      : `Chosen model, ${finalModel}: ${strengthText(f.scale, f.strength)}, ` +
+        `${num(f.df)} effective df, budget C = ${num(f.budget)}, training MSE ` +
+        `${num(f.trainMse)}, intercept ${num(f.intercept)}. Show result.fit for its coefficients.`,
     ...s.notes,
     CAUTION,
   ]);
@@ -227,7 +240,7 @@ function comparisonTable(c: ComparisonSource): CellTable {
     header: ["candidate", "λ", "CV error", "± SE", "vs best", "± SE", "paired screen"],
     rows: c.candidates.map((d) => [
       d.name,
-      d.lambda,
+      d.strength,
       d.cvMean,
       d.cvSe,
       d.versusBest?.mean ?? "",
@@ -293,7 +306,8 @@ export function fitBundle(model: Fit): Promise<ShownBundle> {
   const s = model.summary;
   const t = texts([
     `${s.target} from ${model.terms.map((t) => t.term.label).join(" + ")}; ` +
-    `${penaltyWords(s.penalty)}; λ = ${lambdaText(s.lambda)}; ${s.n} rows.`,
+    `${penaltyWords(s.penalty)}; ${strengthText(s.scale, s.strength)}; ${s.n} rows.`,
+    ...(s.scale === "alpha" ? [`Objective: ${s.objective}.`] : []),
     {
       header: ["column", "order", "γ", "w* (standardized)", "w (data scale)"],
       rows: [
@@ -307,8 +321,15 @@ export function fitBundle(model: Fit): Promise<ShownBundle> {
         ]),
       ],
     },
-    `Effective df ${num(s.df)}; budget C = Σ γ w*² = ${num(s.budget)}; training MSE ` +
-    `${num(s.trainMse)}; residual SD ${num(s.residualSd)}; condition number ${num(s.condition)}.`,
+    s.descent !== null
+      ? `${s.nonzero} of ${s.names.length} coefficients nonzero; ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² = ` +
+        `${num(s.budget)}; training MSE ${num(s.trainMse)}; coordinate descent ` +
+        `${s.descent.converged ? "converged" : "DID NOT converge"} (KKT violation ` +
+        `${num(s.descent.violation)} ≤ ${num(s.descent.tolerance)} asked; duality gap ` +
+        `${num(s.descent.gap)} per row).`
+      : `Effective df ${num(s.df)}; budget C = Σ γ w*² = ${num(s.budget)}; training MSE ` +
+        `${num(s.trainMse)}; residual SD ${num(s.residualSd)}; condition number ` +
+        `${num(s.condition)}.`,
     "The standardized intercept is the prediction at the column means.",
     "Caution: a fit describes the rows it saw; predictions outside their range are " +
     "extrapolation.",
@@ -402,11 +423,11 @@ export function recordCurveSource(
     minimum: {
       rule: "min",
       index: model.choice.minimum.index,
-      lambda: model.choice.minimum.lambda,
+      strength: model.choice.minimum.lambda,
     },
-    chosen: { rule: model.choice.rule, index: model.choice.index, lambda: model.choice.lambda },
+    chosen: { rule: model.choice.rule, index: model.choice.index, strength: model.choice.lambda },
     curve: cv.lambda.map((lambda, l) => ({
-      lambda,
+      strength: lambda,
       cvMean: cv.cvMean[l],
       cvSe: cv.cvSe[l],
       foldMse: cv.foldMse[l],
@@ -443,8 +464,9 @@ export function recordComparisonSource(record: ModelChoiceRecord): ComparisonSou
     target: record.target,
     folds: record.folds,
     best: comparison.best,
-    candidates: comparison.candidates.map((c, i) => ({
+    candidates: comparison.candidates.map(({ lambda, ...c }, i) => ({
       ...c,
+      strength: lambda,
       sweep: recordCurveSource(record.models[i], record),
     })),
   };

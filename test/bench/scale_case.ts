@@ -105,7 +105,7 @@ async function run(): Promise<{ seconds: number; rows: number; extra: Record<str
     return {
       seconds: (performance.now() - t0) / 1000,
       rows: r.n,
-      extra: { lambda: r.chosen.lambda, cv: r.curve[r.chosen.index].cvMean, queries: r.passes },
+      extra: { lambda: r.chosen.strength, cv: r.curve[r.chosen.index].cvMean, queries: r.passes },
     };
   }
   if (job === "postgres") {
@@ -124,7 +124,7 @@ async function run(): Promise<{ seconds: number; rows: number; extra: Record<str
     return {
       seconds: (performance.now() - t0) / 1000,
       rows: r.n,
-      extra: { lambda: r.chosen.lambda, cv: r.curve[r.chosen.index].cvMean, queries: r.passes },
+      extra: { lambda: r.chosen.strength, cv: r.curve[r.chosen.index].cvMean, queries: r.passes },
     };
   }
   if (job === "stream") {
@@ -133,7 +133,7 @@ async function run(): Promise<{ seconds: number; rows: number; extra: Record<str
       seconds: (performance.now() - t0) / 1000,
       rows: r.n,
       extra: {
-        lambda: r.chosen.lambda,
+        lambda: r.chosen.strength,
         cv: r.curve[r.chosen.index].cvMean,
         passes: r.passes,
         summaryBytes: r.memory.summaryBytes,
@@ -155,7 +155,7 @@ async function run(): Promise<{ seconds: number; rows: number; extra: Record<str
     return {
       seconds: (performance.now() - t0) / 1000,
       rows: r.n,
-      extra: { lambda: r.chosen.lambda, cv: r.curve[r.chosen.index].cvMean },
+      extra: { lambda: r.chosen.strength, cv: r.curve[r.chosen.index].cvMean },
     };
   }
   throw new Error(`unknown job ${job}`);

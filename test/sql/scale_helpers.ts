@@ -65,7 +65,7 @@ export function assertSameSweep(
     const w = want.curve[i];
     for (
       const key of [
-        "lambda",
+        "strength",
         "cvMean",
         "cvSe",
         "trainMse",

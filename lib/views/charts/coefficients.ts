@@ -39,7 +39,7 @@ export function coefficientChart(
       .slice(0, COEFFICIENT_LIMIT).sort((a, b) => a - b);
   const rows = shown.map((q) => ({ column: labels[q], w: w[q] }));
   const order = rows.map((r) => r.column);
-  const lambda = s.lambda === 0 ? "0 (no penalty)" : num(s.lambda);
+  const lambda = s.strength === 0 ? "0 (no penalty)" : num(s.strength);
   const notes = [
     ...(input === null ? [] : [`Rows: the design columns ${listed(labels)} of ${input}.`]),
     `Coefficients on the standardized scale (w* = s·w), so sizes compare across columns; ` +

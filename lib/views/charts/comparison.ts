@@ -41,7 +41,7 @@ export interface ComparisonSource {
   readonly best: string;
   readonly candidates: readonly {
     readonly name: string;
-    readonly lambda: number;
+    readonly strength: number;
     readonly cvMean: number;
     readonly cvSe: number;
     readonly versusBest: PairedDifference | null;
@@ -76,7 +76,7 @@ export function comparisonChart(result: ComparisonSource): VegaLiteSpec {
   const best = result.candidates.find((c) => c.name === result.best) ?? result.candidates[0];
   const tied = result.candidates.filter((c) => c.versusBest?.indistinguishable);
   const worse = result.candidates.filter((c) => c.versusBest && !c.versusBest.indistinguishable);
-  const zeroOnly = result.candidates.filter((c) => c.sweep.curve.every((p) => p.lambda === 0));
+  const zeroOnly = result.candidates.filter((c) => c.sweep.curve.every((p) => p.strength === 0));
   const notes = [
     `${foldWords(result.folds)}; the same folds for all ${names.length} candidates, ` +
     `each at its own chosen λ.`,
@@ -105,7 +105,7 @@ export function comparisonChart(result: ComparisonSource): VegaLiteSpec {
     title: {
       text: title(
         `Best: ${best.name}, CV error ${num(best.cvMean)} ± ${num(best.cvSe)} at λ = ${
-          lambdaWords(best.lambda)
+          lambdaWords(best.strength)
         }`,
       ),
       subtitle: subtitle(notes),
@@ -121,8 +121,8 @@ export function comparisonChart(result: ComparisonSource): VegaLiteSpec {
   return showChart(spec, { heading: `Comparison: ${result.target}` });
 }
 
-function lambdaWords(lambda: number): string {
-  return lambda === 0 ? "0 (no penalty)" : num(lambda);
+function lambdaWords(strength: number): string {
+  return strength === 0 ? "0 (no penalty)" : num(strength);
 }
 
 /** Candidate rows: the name written above its interval, in the candidate's colour. */
@@ -170,7 +170,7 @@ function errorPanel(result: ComparisonSource, color: object): unknown {
     const se = Number.isFinite(c.cvSe) ? c.cvSe : 0;
     return {
       name: c.name,
-      label: `${c.name}: ${num(c.cvMean)} ± ${num(c.cvSe)} at λ = ${lambdaWords(c.lambda)}`,
+      label: `${c.name}: ${num(c.cvMean)} ± ${num(c.cvSe)} at λ = ${lambdaWords(c.strength)}`,
       mid: c.cvMean,
       lo: c.cvMean - se,
       hi: c.cvMean + se,
@@ -235,12 +235,12 @@ function clip(text: string, n: number): string {
 
 /** Every candidate's validation curve on one log λ axis; λ = 0-only candidates as levels. */
 function curvesPanel(result: ComparisonSource, color: object): unknown {
-  const withCurve = result.candidates.filter((c) => c.sweep.curve.some((p) => p.lambda > 0));
-  const levels = result.candidates.filter((c) => !c.sweep.curve.some((p) => p.lambda > 0));
+  const withCurve = result.candidates.filter((c) => c.sweep.curve.some((p) => p.strength > 0));
+  const levels = result.candidates.filter((c) => !c.sweep.curve.some((p) => p.strength > 0));
   const rows = withCurve.flatMap((c) =>
-    c.sweep.curve.filter((p) => p.lambda > 0).map((p) => ({
+    c.sweep.curve.filter((p) => p.strength > 0).map((p) => ({
       name: c.name,
-      lambda: p.lambda,
+      strength: p.strength,
       cv: p.cvMean,
     }))
   );
@@ -249,9 +249,9 @@ function curvesPanel(result: ComparisonSource, color: object): unknown {
     Math.max(...rows.map((r) => r.cv), ...levels.map((c) => c.cvMean)),
     Math.max(3 * bestCv, ...levels.map((c) => c.cvMean), ...result.candidates.map((c) => c.cvMean)),
   );
-  const chosen = withCurve.filter((c) => c.lambda > 0).map((c) => ({
+  const chosen = withCurve.filter((c) => c.strength > 0).map((c) => ({
     name: c.name,
-    lambda: c.lambda,
+    strength: c.strength,
     cv: c.cvMean,
   }));
   const y = {
@@ -262,10 +262,10 @@ function curvesPanel(result: ComparisonSource, color: object): unknown {
   };
   const layers: unknown[] = [];
   if (rows.length > 0) {
-    const lo = Math.min(...rows.map((r) => r.lambda));
-    const hi = Math.max(...rows.map((r) => r.lambda));
+    const lo = Math.min(...rows.map((r) => r.strength));
+    const hi = Math.max(...rows.map((r) => r.strength));
     const x = {
-      field: "lambda",
+      field: "strength",
       type: "quantitative",
       scale: { type: "log", domain: [lo, hi], nice: false },
     };

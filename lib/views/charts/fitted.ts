@@ -68,9 +68,9 @@ export function fittedCurveChart(result: SweepResult, data: Table | TableInput):
   );
   const curves = chosenCurves(result).map((c) => ({
     ...c,
-    values: c.lambda === result.chosen.lambda
+    values: c.strength === result.chosen.strength
       ? result.fit.predict({ [input]: grid }).values
-      : refit(result, table, c.lambda).predict({ [input]: grid }).values,
+      : refit(result, table, c.strength).predict({ [input]: grid }).values,
   }));
   const yMin = Math.min(...ys);
   const yMax = Math.max(...ys);
@@ -115,7 +115,7 @@ export function fittedCurveChart(result: SweepResult, data: Table | TableInput):
     $schema: SCHEMA_URL,
     title: {
       text: title(
-        `${result.target} against ${input} at the chosen λ = ${num(result.chosen.lambda)}`,
+        `${result.target} against ${input} at the chosen λ = ${num(result.chosen.strength)}`,
       ),
       subtitle: subtitle([
         `Dots: the ${xs.length} rows. Curves: exact all-rows refits at three λ; the chosen ` +
@@ -188,7 +188,7 @@ export function fittedCurveChart(result: SweepResult, data: Table | TableInput):
 }
 
 interface CurveChoice {
-  readonly lambda: number;
+  readonly strength: number;
   readonly label: string;
   readonly short: string;
   readonly color: string;
@@ -203,24 +203,24 @@ function chosenCurves(result: SweepResult): CurveChoice[] {
   const picks: (CurveChoice & { index: number })[] = [
     {
       index: chosen.index,
-      lambda: chosen.lambda,
-      label: `chosen: λ = ${lam(chosen.lambda)}, ${df(chosen.index)}`,
+      strength: chosen.strength,
+      label: `chosen: λ = ${lam(chosen.strength)}, ${df(chosen.index)}`,
       short: "chosen-λ",
       color: COLORS.chosen,
       dash: [1, 0],
     },
     {
       index: minimum.index,
-      lambda: minimum.lambda,
-      label: `smallest CV error: λ = ${lam(minimum.lambda)}, ${df(minimum.index)}`,
+      strength: minimum.strength,
+      label: `smallest CV error: λ = ${lam(minimum.strength)}, ${df(minimum.index)}`,
       short: "smallest-CV-error",
       color: COLORS.minimum,
       dash: [6, 3],
     },
     {
       index: 0,
-      lambda: curve[0].lambda,
-      label: `smallest grid λ = ${lam(curve[0].lambda)}, ${df(0)}`,
+      strength: curve[0].strength,
+      label: `smallest grid λ = ${lam(curve[0].strength)}, ${df(0)}`,
       short: "smallest-λ",
       color: COLORS.train,
       dash: [2, 2],
@@ -230,14 +230,14 @@ function chosenCurves(result: SweepResult): CurveChoice[] {
 }
 
 /** The exact all-rows fit of the sweep's model at another λ. */
-function refit(result: SweepResult, table: Table, lambda: number) {
+function refit(result: SweepResult, table: Table, strength: number) {
   return fit(table, {
     target: result.target,
     terms: result.fit.terms.map((t) => t.term),
     penalty: result.fit.summary.penalty,
     standardize: result.standardize,
     intercept: result.intercept,
-    lambda,
+    lambda: strength,
   });
 }
 

@@ -63,7 +63,7 @@ export const PATH_LINE_LIMIT = 24;
  * ```
  */
 export function shrinkagePathChart(result: PathSource): VegaLiteSpec {
-  const positive = result.curve.flatMap((p, index) => (p.lambda > 0 ? [index] : []));
+  const positive = result.curve.flatMap((p, index) => (p.strength > 0 ? [index] : []));
   const notes: string[] = [];
   if (positive.length < result.curve.length) {
     notes.push("λ = 0 (no penalty) has no place on a log axis and is left out.");
@@ -75,7 +75,7 @@ export function shrinkagePathChart(result: PathSource): VegaLiteSpec {
 function headline(result: PathSource): string {
   const c = result.curve[result.chosen.index];
   const rule = result.chosen.rule === "one-se" ? "one-SE rule" : "smallest CV error";
-  return `Chosen λ = ${num(result.chosen.lambda)} (${rule}) keeps a budget C = ${num(c.budget)}`;
+  return `Chosen λ = ${num(result.chosen.strength)} (${rule}) keeps a budget C = ${num(c.budget)}`;
 }
 
 /** The columns with the largest |coefficient| at the chosen λ, as "name (value)". */
@@ -87,8 +87,8 @@ function largest(result: PathSource, labels: readonly string[], count: number): 
 
 function pathSpec(result: PathSource, positive: readonly number[], notes: string[]): VegaLiteSpec {
   const curve = result.curve;
-  const lo = curve[positive[0]].lambda;
-  const hi = curve[positive[positive.length - 1]].lambda;
+  const lo = curve[positive[0]].strength;
+  const hi = curve[positive[positive.length - 1]].strength;
   const p = result.names.length;
   const shown = linesShown(result, positive[0]);
   if (shown.length < p) {
@@ -111,15 +111,15 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
   );
   const width = Math.max(280, Math.min(SIZE.wide, 540 - legendWidth));
   const pathRows = picked.flatMap((l) =>
-    shown.map((q) => ({ lambda: curve[l].lambda, term: labels[q], w: curve[l].path[q] }))
+    shown.map((q) => ({ strength: curve[l].strength, term: labels[q], w: curve[l].path[q] }))
   );
   const budgetRows = picked.filter((l) => curve[l].budget > 0).map((l) => ({
-    lambda: curve[l].lambda,
+    strength: curve[l].strength,
     budget: curve[l].budget,
   }));
   // Only the line layers carry an axis; the other layers leave theirs unset, so they merge.
   const x = (axis?: unknown) => ({
-    field: "lambda",
+    field: "strength",
     type: "quantitative",
     scale: { type: "log", domain: [lo, hi], nice: false },
     ...(axis === undefined ? {} : { axis }),
@@ -131,13 +131,17 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
     grid: true,
   };
   const chosen = curve[result.chosen.index];
-  const chosenRows = chosen.lambda > 0
-    ? [{ lambda: chosen.lambda, budget: chosen.budget, label: `chosen λ = ${num(chosen.lambda)}` }]
+  const chosenRows = chosen.strength > 0
+    ? [{
+      strength: chosen.strength,
+      budget: chosen.budget,
+      label: `chosen λ = ${num(chosen.strength)}`,
+    }]
     : [];
   // Labels go right of the chosen λ's rule, or left of it when they would leave the plot.
-  const at = (width * Math.log(chosen.lambda / lo)) / Math.log(hi / lo);
-  const right = chosen.lambda > 0 &&
-    at + textWidth(`chosen λ = ${num(chosen.lambda)}`, 11) + 8 <= width;
+  const at = (width * Math.log(chosen.strength / lo)) / Math.log(hi / lo);
+  const right = chosen.strength > 0 &&
+    at + textWidth(`chosen λ = ${num(chosen.strength)}`, 11) + 8 <= width;
   const side = { align: right ? "left" : "right", dx: right ? 5 : -5 };
   const chosenRule = {
     data: { values: chosenRows },
@@ -272,7 +276,7 @@ function singlePointSpec(result: PathSource): VegaLiteSpec {
   return {
     $schema: SCHEMA_URL,
     title: {
-      text: `One λ = ${num(point.lambda)}: budget C = ${num(point.budget)}`,
+      text: `One λ = ${num(point.strength)}: budget C = ${num(point.budget)}`,
       subtitle: subtitle([
         "Only one λ was swept, so there is no path: the standardized coefficients w*_q of " +
         `the all-rows fit at that λ (${foldWords(result.folds)}).`,

@@ -66,7 +66,7 @@ export function residualChart(model: Fit, data: Table | TableInput): VegaLiteSpe
       thinned.replace("row order", "row order (left) and by rank (right, both ends kept)"),
     );
   }
-  const lambda = model.summary.lambda;
+  const lambda = model.summary.strength;
   const line = table.lineOfRow[worst];
   const where = table.source === "rows" || table.source === "columns" ? "row" : "line";
   const scatterRows = scatter.map((i) => ({ fitted: fitted[i], residual: residual[i] }));

@@ -82,7 +82,7 @@ export function validationCurveChart(
   result: CurveSource,
   options: ValidationOptions = {},
 ): VegaLiteSpec {
-  const positive = result.curve.flatMap((p, index) => (p.lambda > 0 ? [{ p, index }] : []));
+  const positive = result.curve.flatMap((p, index) => (p.strength > 0 ? [{ p, index }] : []));
   const spec = positive.length < 2
     ? singleLambdaSpec(result)
     : curveSpec(result, positive, options);
@@ -91,9 +91,9 @@ export function validationCurveChart(
 
 /** The title line: the chosen λ, how and on which folds. */
 function headline(result: CurveSource): string {
-  const lambda = result.chosen.lambda === 0
+  const lambda = result.chosen.strength === 0
     ? "λ = 0 (no penalty)"
-    : `λ = ${num(result.chosen.lambda)}`;
+    : `λ = ${num(result.chosen.strength)}`;
   return `Chosen ${lambda} by ${ruleWords(result.chosen.rule)} (${foldWords(result.folds)})`;
 }
 
@@ -103,7 +103,7 @@ function numbersSentences(result: CurveSource): string[] {
   const chosen = result.curve[result.chosen.index];
   const at = (p: CurvePoint) => `${num(p.cvMean)} ± ${num(p.cvSe)}`;
   const lam = (l: number) => (l === 0 ? "0 (no penalty)" : num(l));
-  const first = `Smallest CV error ${at(min)} (mean ± SE) at λ = ${lam(min.lambda)}.`;
+  const first = `Smallest CV error ${at(min)} (mean ± SE) at λ = ${lam(min.strength)}.`;
   const second = result.chosen.index === result.minimum.index
     ? `There: ${num(chosen.df)} effective df; ${result.target}, ${result.n} rows.`
     : `At the chosen λ: ${at(chosen)}, ${num(chosen.df)} effective df (${result.n} rows).`;
@@ -122,9 +122,9 @@ function curveSpec(
 ): VegaLiteSpec {
   const width = SIZE.wide;
   const height = SIZE.tall;
-  const lo = positive[0].p.lambda;
-  const hi = positive[positive.length - 1].p.lambda;
-  const zero = result.curve.find((p) => p.lambda === 0);
+  const lo = positive[0].p.strength;
+  const hi = positive[positive.length - 1].p.strength;
+  const zero = result.curve.find((p) => p.strength === 0);
   const foldCount = result.curve[0].foldMse.length;
   const showFolds = options.folds ?? foldCount <= FOLD_CURVES_DEFAULT_LIMIT;
   const yTop = yDomainTop(result, positive, zero);
@@ -138,14 +138,14 @@ function curveSpec(
     );
   }
   const x = (axis: unknown = null) => ({
-    field: "lambda",
+    field: "strength",
     type: "quantitative",
     scale: { type: "log", domain: [lo, hi], nice: false },
     axis,
   });
   const y = { type: "quantitative", scale: { domain: [0, yTop], nice: false } };
   const curveRows = positive.map(({ p }) => ({
-    lambda: p.lambda,
+    strength: p.strength,
     cv: p.cvMean,
     lo: p.cvMean - (Number.isFinite(p.cvSe) ? p.cvSe : 0),
     hi: p.cvMean + (Number.isFinite(p.cvSe) ? p.cvSe : 0),
@@ -185,7 +185,7 @@ function curveSpec(
   }
   // Training error first, so the CV error line is drawn over it; the top axis rides on the latter.
   const line = (name: string, field: "train" | "cv", strokeWidth: number, axis?: unknown) => ({
-    data: { values: curveRows.map((r) => ({ lambda: r.lambda, series: name, mse: r[field] })) },
+    data: { values: curveRows.map((r) => ({ strength: r.strength, series: name, mse: r[field] })) },
     mark: { type: "line", strokeWidth, clip: true },
     encoding: {
       x: x(axis ?? null),
@@ -278,21 +278,21 @@ function dfAxis(
   curve: readonly CurvePoint[],
 ) {
   const pixel = (l: number) => (width * Math.log(l / lo)) / Math.log(hi / lo);
-  const ticks: { lambda: number; df: number }[] = [];
+  const ticks: { strength: number; df: number }[] = [];
   for (const df of DF_MARKS) {
     const lambda = lambdaAtDf(positive, df);
     if (lambda === undefined) continue;
-    if (ticks.every((t) => Math.abs(pixel(t.lambda) - pixel(lambda)) >= DF_LABEL_GAP)) {
-      ticks.push({ lambda, df });
+    if (ticks.every((t) => Math.abs(pixel(t.strength) - pixel(lambda)) >= DF_LABEL_GAP)) {
+      ticks.push({ strength: lambda, df });
     }
   }
   const p = curve.length > 0 ? Math.round(curve[0].path.length) : 0;
   return {
     orient: "top",
     title: `effective degrees of freedom (${p} penalized columns)`,
-    values: ticks.map((t) => t.lambda),
+    values: ticks.map((t) => t.strength),
     labelExpr: `[${ticks.map((t) => JSON.stringify(String(t.df))).join(",")}][indexof([${
-      ticks.map((t) => String(t.lambda)).join(",")
+      ticks.map((t) => String(t.strength)).join(",")
     }], datum.value)]`,
     grid: false,
     labelColor: COLORS.muted,
@@ -306,7 +306,7 @@ function lambdaAtDf(positive: readonly Indexed[], df: number): number | undefine
     const b = positive[i].p;
     if (a.df >= df && b.df <= df && a.df !== b.df) {
       const t = (a.df - df) / (a.df - b.df);
-      return Math.exp(Math.log(a.lambda) + t * Math.log(b.lambda / a.lambda));
+      return Math.exp(Math.log(a.strength) + t * Math.log(b.strength / a.strength));
     }
   }
   return undefined;
@@ -337,9 +337,9 @@ function clipNote(positive: readonly Indexed[], top: number, showFolds: boolean)
   const above = positive.filter(({ p }) => p.cvMean > top);
   if (above.length > 0) {
     const worst = above.reduce((a, b) => (b.p.cvMean > a.p.cvMean ? b : a));
-    const edge = above[above.length - 1].p.lambda;
+    const edge = above[above.length - 1].p.strength;
     return `For λ ≤ ${num(edge)} the mean CV error runs above the top edge ` +
-      `(up to ${num(worst.p.cvMean)} at λ = ${num(worst.p.lambda)}).`;
+      `(up to ${num(worst.p.cvMean)} at λ = ${num(worst.p.strength)}).`;
   }
   const cut = positive.some(({ p }) =>
     p.cvMean + p.cvSe > top || (showFolds && p.foldMse.some((e) => e > top))
@@ -356,7 +356,12 @@ function foldRows(positive: readonly Indexed[], result: CurveSource, series: str
   );
   const picked = spreadIndices(positive.length, limit, keep);
   const rows = picked.flatMap((i) =>
-    positive[i].p.foldMse.map((mse, fold) => ({ lambda: positive[i].p.lambda, fold, mse, series }))
+    positive[i].p.foldMse.map((mse, fold) => ({
+      strength: positive[i].p.strength,
+      fold,
+      mse,
+      series,
+    }))
   );
   const note = thinningNote(picked.length, positive.length, "λ values of the fold curves", "λ");
   return { rows, note };
@@ -393,39 +398,39 @@ function choiceLayers(
   const same = result.minimum.index === result.chosen.index;
   const marks = same
     ? [{
-      lambda: chosen.lambda,
+      strength: chosen.strength,
       cv: chosen.cvMean,
-      label: `chosen = minimum, λ = ${num(chosen.lambda)}`,
+      label: `chosen = minimum, λ = ${num(chosen.strength)}`,
       kind: "chosen",
     }]
     : [
       {
-        lambda: chosen.lambda,
+        strength: chosen.strength,
         cv: chosen.cvMean,
-        label: `chosen, λ = ${num(chosen.lambda)}`,
+        label: `chosen, λ = ${num(chosen.strength)}`,
         kind: "chosen",
       },
       {
-        lambda: min.lambda,
+        strength: min.strength,
         cv: min.cvMean,
-        label: `minimum, λ = ${num(min.lambda)}`,
+        label: `minimum, λ = ${num(min.strength)}`,
         kind: "minimum",
       },
     ];
-  const onAxis = marks.filter((m) => m.lambda > 0);
+  const onAxis = marks.filter((m) => m.strength > 0);
   const layers: unknown[] = [];
-  if (result.chosen.rule === "one-se" && !same && min.lambda > 0 && chosen.lambda > 0) {
+  if (result.chosen.rule === "one-se" && !same && min.strength > 0 && chosen.strength > 0) {
     const limit = min.cvMean + min.cvSe;
     layers.push(
       {
-        data: { values: [{ lambda: min.lambda, to: chosen.lambda, cv: limit }] },
+        data: { values: [{ strength: min.strength, to: chosen.strength, cv: limit }] },
         mark: { type: "rule", color: COLORS.chosen, strokeDash: [2, 3], strokeWidth: 1.4 },
         encoding: { x: x(), x2: { field: "to" }, y: { field: "cv", type: "quantitative" } },
       },
       // Centred over the threshold segment (at the geometric middle of its two λ), so the label
       // stays inside the plot even when the chosen λ is at the right edge.
       ...haloText([{
-        lambda: Math.sqrt(min.lambda * chosen.lambda),
+        strength: Math.sqrt(min.strength * chosen.strength),
         cv: limit,
         label: "min + 1 SE",
       }], {
@@ -446,7 +451,7 @@ function choiceLayers(
   onAxis.forEach((m, row) => {
     const isMin = m.kind === "minimum";
     const color = isMin ? COLORS.minimum : COLORS.chosen;
-    const at = (width * Math.log(m.lambda / lo)) / span;
+    const at = (width * Math.log(m.strength / lo)) / span;
     const room = textWidth(m.label, 11) + 8;
     const right = isMin ? at < room : at + room <= width;
     layers.push(
@@ -502,7 +507,9 @@ function singleLambdaSpec(result: CurveSource): VegaLiteSpec {
   const rows = point.foldMse.map((mse, fold) => ({ fold: fold + 1, mse }));
   const se = Number.isFinite(point.cvSe) ? point.cvSe : 0;
   const stats = [{ mean: point.cvMean, lo: point.cvMean - se, hi: point.cvMean + se }];
-  const lambdaWords = point.lambda === 0 ? "No penalty (λ = 0)" : `One λ = ${num(point.lambda)}`;
+  const lambdaWords = point.strength === 0
+    ? "No penalty (λ = 0)"
+    : `One λ = ${num(point.strength)}`;
   const foldAxis = {
     field: "fold",
     type: "ordinal",
