@@ -40,7 +40,15 @@ export {
   product,
   type Term,
 } from "./lib/design/mod.ts";
-export { ridge, type RidgePenalty, type RidgeWeights } from "./lib/fit/penalty.ts";
+export {
+  type Penalty,
+  ridge,
+  type RidgePenalty,
+  type RidgeWeights,
+  type StrengthScale,
+} from "./lib/fit/penalty.ts";
+export { elasticNet, lasso, type SparsePenalty } from "./lib/sparse/penalty.ts";
+export type { AlphaGrid } from "./lib/sparse/grid.ts";
 export {
   Fit,
   fit,

@@ -138,7 +138,7 @@ Deno.test("GCV equals (RSS/n)/(1 − (df+1)/n)² of the exact fit (Golub, Heath 
   s.curve.forEach((pt) => {
     const m = fit(tableFromColumns(cols), { target: "y", terms, lambda: pt.strength });
     const gcv = m.summary.trainMse / (1 - (m.summary.df + 1) / 50) ** 2;
-    assert.ok(relErr(pt.gcv, gcv) < 1e-9);
+    assert.ok(relErr(pt.gcv as number, gcv) < 1e-9);
     assert.ok(relErr(pt.df, m.summary.df) < 1e-9);
     assert.ok(relErr(pt.budget, m.summary.budget) < 1e-8);
     assert.ok(relErr(pt.trainMse, m.summary.trainMse) < 1e-9);

@@ -34,6 +34,7 @@ import {
   type StrengthScale,
 } from "./penalty.ts";
 import { allRowsPath, sparseSummary } from "./sparse_fit.ts";
+import type { SparsePath } from "../sparse/mod.ts";
 import { columnScales } from "./scale.ts";
 import { fitBundle, JUPYTER_DISPLAY } from "../views/display.ts";
 
@@ -204,12 +205,17 @@ export function prepare(table: Table, spec: FitSpec) {
   return { y, terms, design };
 }
 
-/** The exact fit on an already built design. */
+/**
+ * The fit on an already built design: exact for ridge; for lasso / elastic net the all-rows
+ * coordinate-descent solution at `spec.alpha`, or solution `index` of an already `solved`
+ * all-rows path (a sparse sweep's final model).
+ */
 export function fitPrepared(
   spec: FitSpec,
   terms: readonly LearnedTerm[],
   design: Design,
   y: Float64Array,
+  solved?: { readonly path: SparsePath; readonly index: number },
 ): Fit {
   const standardize = spec.standardize ?? true;
   const intercept = spec.intercept ?? true;
@@ -224,8 +230,9 @@ export function fitPrepared(
   const condition = conditionNumber(tri.r, sds);
   if (isSparse(penalty)) {
     const options = { standardize, intercept, tolerance: spec.tolerance };
-    const path = allRowsPath(design, y, penalty, [spec.alpha as number], options);
-    const summary = sparseSummary(path, path.solutions[0], {
+    const { path, index } = solved ??
+      { path: allRowsPath(design, y, penalty, [spec.alpha as number], options), index: 0 };
+    const summary = sparseSummary(path, path.solutions[index], {
       target: spec.target,
       design,
       penalty,

@@ -63,6 +63,24 @@ export function allRowsPath(
 }
 
 /**
+ * The sparse penalty's value per unit α, ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (‖w*‖₁ for the lasso).
+ *
+ * @example
+ * ```ts
+ * import { penaltyValue } from "./sparse_fit.ts";
+ * console.log(penaltyValue(1, [0.5, -1]), penaltyValue(0.5, [2])); // 1.5 2
+ * ```
+ */
+export function penaltyValue(mix: number, standardized: readonly number[]): number {
+  let l1 = 0, l2 = 0;
+  for (const v of standardized) {
+    l1 += Math.abs(v);
+    l2 += v * v;
+  }
+  return mix * l1 + ((1 - mix) / 2) * l2;
+}
+
+/**
  * The FitSummary of one solution of an all-rows path.
  *
  * @example
@@ -81,8 +99,6 @@ export function sparseSummary(
   const wStd = [...sol.standardized];
   const means = path.standardize ? [...path.means] : new Array<number>(w.length).fill(0);
   const n = path.count;
-  const l1 = wStd.reduce((s, v) => s + Math.abs(v), 0);
-  const l2 = wStd.reduce((s, v) => s + v * v, 0);
   const residualDf = n - (path.intercept ? 1 : 0) - sol.nonzero;
   return deepFreeze({
     target: context.target,
@@ -94,7 +110,7 @@ export function sparseSummary(
     objective: objectiveText(penalty),
     gamma: new Array<number>(w.length).fill(1),
     strength: sol.alpha,
-    budget: mix * l1 + ((1 - mix) / 2) * l2,
+    budget: penaltyValue(mix, wStd),
     df: sol.nonzero,
     nonzero: sol.nonzero,
     intercept: sol.intercept,

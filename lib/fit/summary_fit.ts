@@ -16,10 +16,38 @@ import type { LearnedTerm } from "../design/types.ts";
 import type { Moments } from "../sweep/moments.ts";
 import { decompose, solutionAt } from "../sweep/spectrum.ts";
 import { Fit, type FitSpec, type FitSummary } from "./fit.ts";
-import { isSparse, objectiveText, penaltyWeights, ridge } from "./penalty.ts";
+import {
+  isSparse,
+  objectiveText,
+  type Penalty,
+  penaltyWeights,
+  ridge,
+  type RidgePenalty,
+} from "./penalty.ts";
 
 /** Largest condition number accepted at λ = 0 (as the row-based fit). */
 const RANK_LIMIT = 1e15;
+
+/**
+ * The penalty of a fit or sweep from summaries (streams, SQL): ridge only for now; a lasso or
+ * elastic net gets a clear error before any work is done.
+ *
+ * @example
+ * ```ts
+ * import { summaryPenalty } from "./summary_fit.ts";
+ * console.log(summaryPenalty(undefined).kind); // "ridge"
+ * ```
+ */
+export function summaryPenalty(penalty: Penalty | undefined): RidgePenalty {
+  const chosen = penalty ?? ridge();
+  if (!isSparse(chosen)) return chosen;
+  throw new CurbfitError(
+    "BAD_OPTION",
+    `a sweep or fit from summaries (streams, SQL) takes a ridge penalty, not ${chosen.kind}`,
+    "Load the rows into a table and use fit or sweep with lasso() / elasticNet() and alpha",
+    { option: "penalty" },
+  );
+}
 
 /**
  * Fits at `spec.lambda` from `all`, the summary of all rows over the design of `terms`
@@ -50,15 +78,7 @@ export function fitFromMoments(
   const n = all.count;
   const standardize = spec.standardize ?? true;
   const intercept = spec.intercept ?? true;
-  const penalty = spec.penalty ?? ridge();
-  if (isSparse(penalty)) {
-    throw new CurbfitError(
-      "BAD_OPTION",
-      `a fit from summaries (streams, SQL) takes a ridge penalty, not ${penalty.kind}`,
-      "Load the rows and use fit or sweep with lasso() / elasticNet() and alpha",
-      { option: "penalty" },
-    );
-  }
+  const penalty = summaryPenalty(spec.penalty);
   const gamma = penaltyWeights(penalty, orders);
   const lambda = spec.lambda ?? 0;
   if (spec.budget !== undefined) {

@@ -261,7 +261,7 @@ function cvSection(s: SweepResult): CvSection {
     foldTrainMse: column((c) => c.foldTrainMse),
     df: column((c) => c.df),
     budget: column((c) => c.budget),
-    gcv: column((c) => c.gcv),
+    gcv: column((c) => c.gcv as number), /* ridge records only: always a number */
     loo: s.curve[0].loo === null ? null : column((c) => c.loo as number),
     foldMse: s.curve.map((c) => [...c.foldMse]),
     path: s.curve.map((c) => [...c.path]),

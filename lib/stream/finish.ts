@@ -12,7 +12,7 @@ import { CurbfitError } from "../errors/error.ts";
 import { deepFreeze } from "../common/freeze.ts";
 import type { LearnedTerm, Term } from "../design/types.ts";
 import type { FitSpec } from "../fit/fit.ts";
-import { fitFromMoments } from "../fit/summary_fit.ts";
+import { fitFromMoments, summaryPenalty } from "../fit/summary_fit.ts";
 import { penaltyWeights, ridge } from "../fit/penalty.ts";
 import { emptyMoments, mergeMoments, type Moments, removeMoments } from "../sweep/moments.ts";
 import { basisChange, changeMoments } from "../sweep/basis.ts";
@@ -175,6 +175,7 @@ export const DEFAULT_HASH_FOLDS = { k: 10, seed: 1 } as const;
  * ```
  */
 export function checkScaleSpec(spec: ScaleSweepSpec): string[] {
+  summaryPenalty(spec?.penalty);
   if (typeof spec?.target !== "string" || spec.target === "") {
     throw new CurbfitError(
       "BAD_OPTION",

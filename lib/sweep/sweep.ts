@@ -8,6 +8,13 @@
  * then serves every λ at O(p²) each, and the held-out error comes from the held-out summary.
  * The chosen λ is refit on all rows with the exact solver.
  *
+ * With `penalty: lasso()` or `elasticNet({ mix })` the sweep runs over α (`alphas`, the 1/(2N)
+ * convention; lib/sparse) instead of λ: per training fold a warm-started coordinate-descent
+ * path over the α grid of the all-rows problem, scored on the held-out summary. The chosen model
+ * is the all-rows path's solution at the chosen α (no exact refit: the exact QR solver is for
+ * quadratic penalties). GCV and closed-form leave-one-out are ridge identities and are null.
+ * Every result says its `scale` ("lambda" or "alpha"); `strength` holds the λ or α value.
+ *
  * Reported per λ: per-fold validation MSE, their mean, and the standard error
  * SE = SD/√K (SD over the K·R fold errors with divisor K·R − 1; with R repeats this treats the
  * R·K errors as one K-fold's spread — common practice); all-rows training MSE, df(λ), C(λ);
@@ -22,15 +29,31 @@ import { buildDesign, learnsFromRows, learnTerms } from "../design/mod.ts";
 import type { Table } from "../table/types.ts";
 import { toTable } from "../table/mod.ts";
 import { type FoldPlan, foldRows } from "../folds/mod.ts";
+import { CurbfitError } from "../errors/error.ts";
 import { type Fit, fitPrepared, type FitSpec, prepare, type TableInput } from "../fit/fit.ts";
-import { penaltyWeights, ridge } from "../fit/penalty.ts";
+import type { AlphaGrid } from "../sparse/mod.ts";
+import {
+  checkStrengthOptions,
+  isSparse,
+  penaltyWeights,
+  ridge,
+  type StrengthScale,
+  strengthScale,
+  strengthSymbol,
+} from "../fit/penalty.ts";
 import { bucketMoments, mergeMoments, type Moments, removeMoments } from "./moments.ts";
 import { basisChange, changeMoments } from "./basis.ts";
 import type { LambdaGrid } from "./grid.ts";
 import { type Choice, choose, type SelectionRule } from "./select.ts";
 import { type FoldRequest, planFolds } from "./folds.ts";
 import { leaveOneOutErrors } from "./loo.ts";
-import { crossValidate, curvePoints, type FoldSummarySource } from "./engine.ts";
+import {
+  crossValidate,
+  crossValidateSparse,
+  curvePoints,
+  type FoldSummarySource,
+  sparseCurvePoints,
+} from "./engine.ts";
 import {
   type SweepProvenance,
   sweepProvenance,
@@ -54,10 +77,17 @@ export type ProgressListener = (progress: Progress) => void;
 /** Largest row count for which closed-form leave-one-out is computed by default. */
 export const CLOSED_FORM_DEFAULT_ROWS = 100_000;
 
-/** What to sweep: a fit spec without λ, plus the grid, folds and rule. */
-export interface SweepSpec extends Omit<FitSpec, "lambda" | "budget"> {
-  /** λ values, or bounds/count of an automatic log-spaced grid (default 100 points). */
+/** What to sweep: a fit spec without a strength, plus the grid, folds and rule. */
+export interface SweepSpec extends Omit<FitSpec, "lambda" | "budget" | "alpha"> {
+  /**
+   * Ridge only: λ values, or bounds/count of an automatic log-spaced grid (default 100 points).
+   */
   readonly lambdas?: LambdaGrid;
+  /**
+   * Lasso / elastic net only: α values, or the length and depth of an automatic path from the
+   * all-rows α_max down (default 100 values; lib/sparse/grid.ts).
+   */
+  readonly alphas?: AlphaGrid;
   /** A fold plan, or how to make one (default 10-fold, seed 1). */
   readonly folds?: FoldPlan | FoldRequest;
   /** How to pick λ from the curve (default "min"). */
@@ -84,10 +114,15 @@ export interface CurvePoint {
   readonly trainMse: number;
   /** Mean training MSE over the folds' training sets. */
   readonly foldTrainMse: number;
+  /** Ridge: effective df of the all-rows fit. Sparse: its nonzero count. */
   readonly df: number;
+  /** Number of nonzero coefficients of the all-rows fit (every one, for ridge). */
+  readonly nonzero: number;
+  /** Ridge: C(λ) = Σ γ_q w*_q². Sparse: ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² of the all-rows fit. */
   readonly budget: number;
-  readonly gcv: number;
-  /** Closed-form leave-one-out MSE, or null when not computed. */
+  /** Generalized cross-validation error; null for sparse penalties (not computed). */
+  readonly gcv: number | null;
+  /** Closed-form leave-one-out MSE, or null when not computed (always null for sparse). */
   readonly loo: number | null;
   /** Standardized coefficients s_q·w_q of the all-rows fit (the shrinkage path). */
   readonly path: readonly number[];
@@ -110,6 +145,8 @@ export interface CurveResult {
   readonly gamma: readonly number[];
   readonly standardize: boolean;
   readonly intercept: boolean;
+  /** Which convention `strength` values are on: ridge λ ("lambda") or sparse α ("alpha"). */
+  readonly scale: StrengthScale;
   readonly curve: readonly CurvePoint[];
   /** The grid point with the smallest mean CV error. */
   readonly minimum: Choice;
@@ -117,7 +154,10 @@ export interface CurveResult {
   readonly chosen: Choice;
   /** Plain-language notes, e.g. the minimum sitting on an edge of the grid. */
   readonly notes: readonly string[];
-  /** The chosen model on all rows. */
+  /**
+   * The chosen model on all rows (ridge: refit with the exact solver; lasso / elastic net: the
+   * all-rows coordinate-descent solution).
+   */
   readonly fit: Fit;
 }
 
@@ -168,6 +208,7 @@ export function sweepAsync(data: Table | TableInput, spec: SweepSpec): Promise<S
 function* sweepSteps(data: Table | TableInput, spec: SweepSpec): Steps<SweepResult> {
   const table = toTable(data);
   const plan = planFolds(table, spec.folds);
+  checkSweepStrength(spec);
   const { y, terms, design } = prepare(table, spec);
   const source = sweepSource(table, spec.target, [spec.terms], spec.folds);
   return yield* sweepPrepared(table, spec, plan, terms, design, y, source);
@@ -183,8 +224,9 @@ export function* sweepPrepared(
   y: Float64Array,
   data: SweepSource,
 ): Steps<SweepResult> {
+  const penalty = spec.penalty ?? ridge();
   const options = {
-    gamma: penaltyWeights(spec.penalty ?? ridge(), design.orders),
+    gamma: penaltyWeights(penalty, design.orders),
     standardize: spec.standardize ?? true,
     intercept: spec.intercept ?? true,
   };
@@ -207,17 +249,34 @@ export function* sweepPrepared(
         ? foldSummaries(table, spec, terms, all, buckets, plan, r, f)
         : sameBasisSummaries(all, buckets, plan, r, f),
   };
-  const cv = yield* crossValidate(source, design.names, options, spec.lambdas, report);
-  const closed = wantClosedForm(spec.closedForm, n);
-  const loo = closed ? leaveOneOutErrors(cv.full, hi, y, cv.lambdas) : null;
-  const curve = curvePoints(cv, plan.k, loo);
-  const lambdas = cv.lambdas;
+  let curve: CurvePoint[];
+  let finalModel: (chosen: Choice) => Fit;
+  if (isSparse(penalty)) {
+    const sparse = { penalty, ...options, tolerance: spec.tolerance };
+    const cv = yield* crossValidateSparse(source, design.names, sparse, spec.alphas, report);
+    curve = sparseCurvePoints(cv, plan.k);
+    // Curve index l is path solution L − 1 − l (the path runs in decreasing α).
+    const last = curve.length - 1;
+    finalModel = (c) =>
+      fitPrepared({ ...spec, alpha: c.strength }, terms, design, y, {
+        path: cv.full,
+        index: last - c.index,
+      });
+  } else {
+    const cv = yield* crossValidate(source, design.names, options, spec.lambdas, report);
+    const closed = wantClosedForm(spec.closedForm, n);
+    const loo = closed ? leaveOneOutErrors(cv.full, hi, y, cv.lambdas) : null;
+    curve = curvePoints(cv, plan.k, loo);
+    finalModel = (c) => fitPrepared({ ...spec, lambda: c.strength }, terms, design, y);
+  }
+  const scale = strengthScale(penalty);
+  const grid = curve.map((c) => c.strength);
   const means = curve.map((c) => c.cvMean);
   const ses = curve.map((c) => c.cvSe);
-  const minimum = choose("min", lambdas, means, ses);
-  const chosen = choose(spec.rule ?? "min", lambdas, means, ses);
+  const minimum = choose("min", grid, means, ses);
+  const chosen = choose(spec.rule ?? "min", grid, means, ses);
   report({ stage: "refit", done: 0, total: 1 });
-  const model = fitPrepared({ ...spec, lambda: chosen.strength }, terms, design, y);
+  const model = finalModel(chosen);
   report({ stage: "refit", done: 1, total: 1 });
   return deepFreeze(withDisplay({
     target: spec.target,
@@ -227,11 +286,12 @@ export function* sweepPrepared(
     gamma: Array.from(options.gamma),
     standardize: options.standardize,
     intercept: options.intercept,
+    scale,
     folds: plan,
     curve,
     minimum,
     chosen,
-    notes: edgeNotes(minimum, lambdas.length, spec.lambdas),
+    notes: edgeNotes(minimum, grid.length, scale, scale === "alpha" ? spec.alphas : spec.lambdas),
     fit: model,
     provenance: sweepProvenance(data, spec.lambdas),
   }, sweepBundle));
@@ -297,24 +357,51 @@ function wantClosedForm(option: boolean | "auto" | undefined, n: number): boolea
   return option;
 }
 
-function edgeNotes(minimum: Choice, count: number, grid: LambdaGrid | undefined): string[] {
+function edgeNotes(
+  minimum: Choice,
+  count: number,
+  scale: StrengthScale,
+  grid: LambdaGrid | AlphaGrid | undefined,
+): string[] {
   if (count < 2) return [];
   const explicit = Array.isArray(grid);
+  const at = `${strengthSymbol(scale)} on the grid (${minimum.strength.toPrecision(3)})`;
   if (minimum.index === 0) {
+    const widen = explicit
+      ? "add smaller values"
+      : scale === "alpha"
+      ? "lower alphas.ratio"
+      : "lower lambdas.min";
     return [
-      `The smallest CV error is at the smallest λ on the grid (${
-        minimum.strength.toPrecision(3)
-      }); ` +
-      (explicit ? "add smaller values" : "lower lambdas.min") + " to see whether it keeps falling.",
+      `The smallest CV error is at the smallest ${at}; ${widen} to see whether it keeps falling.`,
     ];
   }
   if (minimum.index === count - 1) {
+    if (scale === "alpha" && !explicit) {
+      return [
+        `The smallest CV error is at the largest ${at}, where every coefficient is zero: ` +
+        "the terms do not predict better than the mean on these folds.",
+      ];
+    }
+    const widen = explicit ? "add larger values" : "raise lambdas.max";
     return [
-      `The smallest CV error is at the largest λ on the grid (${
-        minimum.strength.toPrecision(3)
-      }); ` +
-      (explicit ? "add larger values" : "raise lambdas.max") + " to see whether it keeps falling.",
+      `The smallest CV error is at the largest ${at}; ${widen} to see whether it keeps falling.`,
     ];
   }
   return [];
+}
+
+/** Rejects strength options of the other convention, and closed-form LOO for sparse penalties. */
+function checkSweepStrength(spec: SweepSpec): void {
+  const penalty = spec.penalty ?? ridge();
+  checkStrengthOptions(penalty, spec as unknown as Record<string, unknown>);
+  if (isSparse(penalty) && spec.closedForm === true) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `closedForm was asked for with a ${penalty.kind} penalty, but closed-form leave-one-out ` +
+        "is a ridge identity",
+      "Leave closedForm out; the sparse curve reports K-fold errors only",
+      { option: "closedForm" },
+    );
+  }
 }

@@ -435,6 +435,7 @@ export function recordCurveSource(
       foldTrainMse: cv.foldTrainMse[l],
       df: cv.df[l],
       budget: cv.budget[l],
+      nonzero: cv.path[l].filter((w) => w !== 0).length,
       gcv: cv.gcv[l],
       loo: cv.loo === null ? null : cv.loo[l],
       path: cv.path[l],

@@ -75,7 +75,7 @@ export function assertSameSweep(
         "gcv",
       ] as const
     ) {
-      check(g[key], w[key], `curve[${i}].${key}`);
+      check(g[key] as number, w[key] as number, `curve[${i}].${key}`);
     }
     g.foldMse.forEach((v, f) => check(v, w.foldMse[f], `curve[${i}].foldMse[${f}]`));
     const top = Math.max(...w.path.map(Math.abs));
