@@ -20,6 +20,7 @@ import { type FoldRequest, planFolds } from "./folds.ts";
 import type { SelectionRule } from "./select.ts";
 import { sweepSource } from "../record/provenance.ts";
 import { comparisonBundle, withDisplay } from "../views/display.ts";
+import { strengthSymbol } from "../fit/penalty.ts";
 
 /** A candidate: a name and the parts of a sweep spec that differ between candidates. */
 export interface Candidate extends Omit<SweepSpec, "target" | "folds" | "progress"> {
@@ -52,7 +53,7 @@ export interface CandidateOutcome {
   readonly strength: number;
   readonly cvMean: number;
   readonly cvSe: number;
-  /** Fold errors at the chosen λ, repeat-major. */
+  /** Fold errors at the chosen strength, repeat-major. */
   readonly foldMse: readonly number[];
   /** Against the best candidate; null for the best itself. */
   readonly versusBest: PairedDifference | null;
@@ -180,7 +181,8 @@ export function pairedDifference(
 
 function verdictLine(r: CandidateOutcome, best: string): string {
   const fmt = (v: number) => String(Number(v.toPrecision(3)));
-  const at = `CV error ${fmt(r.cvMean)} ± ${fmt(r.cvSe)} at λ = ${fmt(r.strength)}`;
+  const symbol = strengthSymbol(r.sweep.scale);
+  const at = `CV error ${fmt(r.cvMean)} ± ${fmt(r.cvSe)} at ${symbol} = ${fmt(r.strength)}`;
   if (r.versusBest === null) return `${r.name}: lowest ${at}.`;
   const d = r.versusBest;
   const diff = `${fmt(d.mean)} ± ${fmt(d.se)}`;

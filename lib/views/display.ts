@@ -142,7 +142,9 @@ function curveTable(source: CurveSource): CellTable {
       ? "minimum"
       : "";
   return {
-    header: ["λ", "CV error", "± SE", "training MSE", "df", "budget C", ""],
+    header: source.scale === "alpha"
+      ? ["α", "CV error", "± SE", "training MSE", "nonzero", "P(w*)", ""]
+      : ["λ", "CV error", "± SE", "training MSE", "df", "budget C", ""],
     rows: picked.map((i) => {
       const p = curve[i];
       return [p.strength, p.cvMean, p.cvSe, p.trainMse, p.df, p.budget, mark(i)];
@@ -160,7 +162,7 @@ function sweepTexts(s: SweepWords, finalModel: string, extra: readonly string[] 
   const rows = s.curve.length;
   return texts([
     `Model: ${s.target} from ${labels}; ${penaltyWords(f.penalty)}; ` +
-    `${s.n} rows, ${foldWords(s.folds)}; ${rows} λ values.`,
+    `${s.n} rows, ${foldWords(s.folds)}; ${rows} ${strengthSymbol(s.scale)} values.`,
     ...extra,
     table,
     ...(table.rows.length < rows
@@ -236,11 +238,22 @@ export function scaleSweepBundle(r: ScaleSweepResult): Promise<ShownBundle> {
 // ---- comparison ---------------------------------------------------------------------------
 
 function comparisonTable(c: ComparisonSource): CellTable {
+  const scales = new Set(c.candidates.map((d) => d.sweep.scale));
+  const mixed = scales.size > 1;
+  const symbol = strengthSymbol([...scales][0]);
   return {
-    header: ["candidate", "λ", "CV error", "± SE", "vs best", "± SE", "paired screen"],
+    header: [
+      "candidate",
+      mixed ? "chosen λ or α" : symbol,
+      "CV error",
+      "± SE",
+      "vs best",
+      "± SE",
+      "paired screen",
+    ],
     rows: c.candidates.map((d) => [
       d.name,
-      d.strength,
+      mixed ? strengthText(d.sweep.scale, d.strength) : d.strength,
       d.cvMean,
       d.cvSe,
       d.versusBest?.mean ?? "",
@@ -273,7 +286,12 @@ export function comparisonBundle(c: ComparisonResult): Promise<ShownBundle> {
   const t = texts([
     `${c.candidates.length} candidates for ${c.target} on the same folds (${
       foldWords(c.folds)
-    }); each at its own chosen λ. Paired screen: a candidate whose per-fold difference to the ` +
+    }); each at its own chosen ${
+      c.candidates.some((d) => d.sweep.scale === "alpha")
+        ? "strength (λ for ridge in sum-of-squares units, α for lasso / elastic net in the " +
+          "1/(2N) convention)"
+        : "λ"
+    }. Paired screen: a candidate whose per-fold difference to the ` +
     "best has |mean| ≤ 2 SE cannot be told apart from it.",
     comparisonTable(c),
     c.verdict.join("\n"),
@@ -420,6 +438,7 @@ export function recordCurveSource(
     names: model.final.names,
     folds: record.folds,
     notes: model.choice.notes,
+    scale: "lambda",
     minimum: {
       rule: "min",
       index: model.choice.minimum.index,

@@ -24,6 +24,7 @@ import {
   title,
 } from "./theme.ts";
 import type { CurveSource } from "./validation.ts";
+import { type StrengthScale, strengthSymbol } from "../../fit/penalty.ts";
 
 /**
  * What the comparison chart reads (a `ComparisonResult` has all of it; so does a recorded
@@ -77,9 +78,13 @@ export function comparisonChart(result: ComparisonSource): VegaLiteSpec {
   const tied = result.candidates.filter((c) => c.versusBest?.indistinguishable);
   const worse = result.candidates.filter((c) => c.versusBest && !c.versusBest.indistinguishable);
   const zeroOnly = result.candidates.filter((c) => c.sweep.curve.every((p) => p.strength === 0));
+  const scales = [...new Set(result.candidates.map((c) => c.sweep.scale))];
   const notes = [
     `${foldWords(result.folds)}; the same folds for all ${names.length} candidates, ` +
-    `each at its own chosen λ.`,
+    (scales.length > 1
+      ? "each at its own chosen strength: λ for ridge (sum-of-squares units), α for lasso / " +
+        "elastic net (1/(2N) convention); the two are not comparable numbers."
+      : `each at its own chosen ${strengthSymbol(scales[0])}.`),
     tied.length > 0
       ? `Within 2 SE of the best (paired): ${tied.map((c) => c.name).join("; ")}.`
       : "No other candidate is within 2 SE of the best (paired).",
@@ -104,16 +109,22 @@ export function comparisonChart(result: ComparisonSource): VegaLiteSpec {
     $schema: SCHEMA_URL,
     title: {
       text: title(
-        `Best: ${best.name}, CV error ${num(best.cvMean)} ± ${num(best.cvSe)} at λ = ${
-          lambdaWords(best.strength)
-        }`,
+        `Best: ${best.name}, CV error ${num(best.cvMean)} ± ${num(best.cvSe)} at ` +
+          strengthWords(best.sweep.scale, best.strength),
       ),
       subtitle: subtitle(notes),
     },
     vconcat: [
       errorPanel(result, color),
       differencePanel(result, color),
-      curvesPanel(result, color),
+      ...scales.map((scale) =>
+        curvesPanel(
+          result.candidates.filter((c) => c.sweep.scale === scale),
+          color,
+          scale,
+          scales.length > 1,
+        )
+      ),
     ],
     spacing: 18,
     config: CONFIG,
@@ -121,8 +132,9 @@ export function comparisonChart(result: ComparisonSource): VegaLiteSpec {
   return showChart(spec, { heading: `Comparison: ${result.target}` });
 }
 
-function lambdaWords(strength: number): string {
-  return strength === 0 ? "0 (no penalty)" : num(strength);
+/** "λ = 0.1", "λ = 0 (no penalty)" or "α = 0.01". */
+function strengthWords(scale: StrengthScale, strength: number): string {
+  return `${strengthSymbol(scale)} = ${strength === 0 ? "0 (no penalty)" : num(strength)}`;
 }
 
 /** Candidate rows: the name written above its interval, in the candidate's colour. */
@@ -170,7 +182,8 @@ function errorPanel(result: ComparisonSource, color: object): unknown {
     const se = Number.isFinite(c.cvSe) ? c.cvSe : 0;
     return {
       name: c.name,
-      label: `${c.name}: ${num(c.cvMean)} ± ${num(c.cvSe)} at λ = ${lambdaWords(c.strength)}`,
+      label: `${c.name}: ${num(c.cvMean)} ± ${num(c.cvSe)} at ` +
+        strengthWords(c.sweep.scale, c.strength),
       mid: c.cvMean,
       lo: c.cvMean - se,
       hi: c.cvMean + se,
@@ -233,10 +246,20 @@ function clip(text: string, n: number): string {
   return text.length <= n ? text : `${text.slice(0, n - 1)}…`;
 }
 
-/** Every candidate's validation curve on one log λ axis; λ = 0-only candidates as levels. */
-function curvesPanel(result: ComparisonSource, color: object): unknown {
-  const withCurve = result.candidates.filter((c) => c.sweep.curve.some((p) => p.strength > 0));
-  const levels = result.candidates.filter((c) => !c.sweep.curve.some((p) => p.strength > 0));
+/**
+ * The validation curves of the candidates on one strength scale, on one log axis; λ = 0-only
+ * candidates as levels. Ridge (λ) and sparse (α) candidates get separate panels: their
+ * strengths are in different units.
+ */
+function curvesPanel(
+  candidates: ComparisonSource["candidates"],
+  color: object,
+  scale: StrengthScale,
+  mixed: boolean,
+): unknown {
+  const s = strengthSymbol(scale);
+  const withCurve = candidates.filter((c) => c.sweep.curve.some((p) => p.strength > 0));
+  const levels = candidates.filter((c) => !c.sweep.curve.some((p) => p.strength > 0));
   const rows = withCurve.flatMap((c) =>
     c.sweep.curve.filter((p) => p.strength > 0).map((p) => ({
       name: c.name,
@@ -244,10 +267,10 @@ function curvesPanel(result: ComparisonSource, color: object): unknown {
       cv: p.cvMean,
     }))
   );
-  const bestCv = Math.min(...result.candidates.map((c) => c.cvMean));
+  const bestCv = Math.min(...candidates.map((c) => c.cvMean));
   const top = 1.04 * Math.min(
     Math.max(...rows.map((r) => r.cv), ...levels.map((c) => c.cvMean)),
-    Math.max(3 * bestCv, ...levels.map((c) => c.cvMean), ...result.candidates.map((c) => c.cvMean)),
+    Math.max(3 * bestCv, ...levels.map((c) => c.cvMean), ...candidates.map((c) => c.cvMean)),
   );
   const chosen = withCurve.filter((c) => c.strength > 0).map((c) => ({
     name: c.name,
@@ -276,7 +299,11 @@ function curvesPanel(result: ComparisonSource, color: object): unknown {
         encoding: {
           x: {
             ...x,
-            axis: { title: "λ (log scale)", values: logTicks(lo, hi), format: "~g" },
+            axis: {
+              title: scale === "alpha" ? "α, 1/(2N) convention (log scale)" : "λ (log scale)",
+              values: logTicks(lo, hi),
+              format: "~g",
+            },
           },
           y,
           color,
@@ -293,7 +320,7 @@ function curvesPanel(result: ComparisonSource, color: object): unknown {
     const values = levels.map((c) => ({
       name: c.name,
       cv: c.cvMean,
-      label: `${clip(c.name, 40)} (λ = 0)`,
+      label: `${clip(c.name, 40)} (${s} = 0)`,
     }));
     layers.push(
       {
@@ -312,7 +339,10 @@ function curvesPanel(result: ComparisonSource, color: object): unknown {
     width: SIZE.wide,
     height: SIZE.tall - 80,
     title: {
-      text: "Validation curves (dots: each candidate's chosen λ)",
+      text: mixed
+        ? `Validation curves over ${s}, ${scale === "alpha" ? "lasso / elastic net" : "ridge"} ` +
+          `candidates (dots: each candidate's chosen ${s})`
+        : `Validation curves (dots: each candidate's chosen ${s})`,
       fontSize: 12,
       fontWeight: "normal",
       color: COLORS.ink,

@@ -26,6 +26,7 @@ import {
   title,
 } from "./theme.ts";
 import type { CurveSource } from "./validation.ts";
+import { type StrengthScale, strengthSymbol } from "../../fit/penalty.ts";
 
 /**
  * What the shrinkage path reads from a sweep (a `SweepResult` has all of it).
@@ -75,7 +76,44 @@ export function shrinkagePathChart(result: PathSource): VegaLiteSpec {
 function headline(result: PathSource): string {
   const c = result.curve[result.chosen.index];
   const rule = result.chosen.rule === "one-se" ? "one-SE rule" : "smallest CV error";
-  return `Chosen λ = ${num(result.chosen.strength)} (${rule}) keeps a budget C = ${num(c.budget)}`;
+  const s = strengthSymbol(result.scale);
+  const keeps = result.scale === "alpha"
+    ? `${c.nonzero} of ${c.path.length} coefficients in the model`
+    : `a budget C = ${num(c.budget)}`;
+  return `Chosen ${s} = ${num(result.chosen.strength)} (${rule}) keeps ${keeps}`;
+}
+
+/** How the bottom panel's quantity is named: the ridge budget C(λ), or the sparse P(w*). */
+function budgetWords(scale: StrengthScale) {
+  return scale === "alpha"
+    ? {
+      axis: "P(w*) = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖²",
+      short: "P",
+      reading: "Bottom: the penalty's size P(w*) = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² of the same fits " +
+        "(‖w*‖₁ for the lasso).",
+    }
+    : {
+      axis: "budget C(λ)",
+      short: "C",
+      reading: "Bottom, the constraint reading: the same fits minimize training error subject " +
+        "to Σ γ w*² ≤ C(λ).",
+    };
+}
+
+/**
+ * Sparse paths: for each shown coefficient, the largest α at which it is nonzero — where it
+ * enters the model as α falls — as a dot on the zero line.
+ */
+function entryRows(
+  curve: PathSource["curve"],
+  positive: readonly number[],
+  shown: readonly number[],
+  labels: readonly string[],
+) {
+  return shown.flatMap((q) => {
+    const top = [...positive].reverse().find((l) => curve[l].path[q] !== 0);
+    return top === undefined ? [] : [{ strength: curve[top].strength, term: labels[q], w: 0 }];
+  });
 }
 
 /** The columns with the largest |coefficient| at the chosen λ, as "name (value)". */
@@ -93,7 +131,8 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
   const shown = linesShown(result, positive[0]);
   if (shown.length < p) {
     notes.push(
-      `Showing the ${shown.length} of ${p} coefficients largest in size at the smallest λ.`,
+      `Showing the ${shown.length} of ${p} coefficients largest in size at the smallest ` +
+        `${strengthSymbol(result.scale)}.`,
     );
   }
   const picked = spreadIndices(
@@ -101,7 +140,9 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
     Math.max(2, Math.floor(ROW_LIMIT / Math.max(shown.length, 1))),
     positive.flatMap((index, i) => (index === result.chosen.index ? [i] : [])),
   ).map((i) => positive[i]);
-  const thinned = thinningNote(picked.length, positive.length, "λ values", "λ");
+  const sym = strengthSymbol(result.scale);
+  const words = budgetWords(result.scale);
+  const thinned = thinningNote(picked.length, positive.length, `${sym} values`, sym);
   if (thinned) notes.push(thinned);
   const { labels, input } = compactNames(result.names);
   const legendTitle = input === null ? ["design column"] : ["design column", `of ${input}`];
@@ -125,7 +166,9 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
     ...(axis === undefined ? {} : { axis }),
   });
   const lambdaAxis = {
-    title: "λ, penalty strength (log scale)",
+    title: result.scale === "alpha"
+      ? "α, sparse penalty strength, 1/(2N) convention (log scale)"
+      : "λ, penalty strength (log scale)",
     values: logTicks(lo, hi),
     format: "~g",
     grid: true,
@@ -135,13 +178,13 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
     ? [{
       strength: chosen.strength,
       budget: chosen.budget,
-      label: `chosen λ = ${num(chosen.strength)}`,
+      label: `chosen ${sym} = ${num(chosen.strength)}`,
     }]
     : [];
   // Labels go right of the chosen λ's rule, or left of it when they would leave the plot.
   const at = (width * Math.log(chosen.strength / lo)) / Math.log(hi / lo);
   const right = chosen.strength > 0 &&
-    at + textWidth(`chosen λ = ${num(chosen.strength)}`, 11) + 8 <= width;
+    at + textWidth(`chosen ${sym} = ${num(chosen.strength)}`, 11) + 8 <= width;
   const side = { align: right ? "left" : "right", dx: right ? 5 : -5 };
   const chosenRule = {
     data: { values: chosenRows },
@@ -195,6 +238,17 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
           },
         },
       },
+      ...(result.scale === "alpha"
+        ? [{
+          data: { values: entryRows(curve, positive, shown, labels) },
+          mark: { type: "point", filled: true, size: 36, opacity: 0.9 },
+          encoding: {
+            x: x(),
+            y: { field: "w", type: "quantitative" },
+            color: { field: "term", type: "nominal", sort: names, legend: null },
+          },
+        }]
+        : []),
       {
         data: { values: chosenRows },
         mark: {
@@ -223,16 +277,18 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
             field: "budget",
             type: "quantitative",
             scale: { type: "log" },
-            axis: { title: "budget C(λ)", format: "~g", tickCount: 4 },
+            axis: { title: words.axis, format: "~g", tickCount: 4 },
           },
         },
       },
       {
-        data: { values: chosenRows.map((r) => ({ ...r, label: `C = ${num(r.budget)}` })) },
+        data: {
+          values: chosenRows.map((r) => ({ ...r, label: `${words.short} = ${num(r.budget)}` })),
+        },
         mark: { type: "point", filled: true, size: 50, color: COLORS.chosen },
         encoding: { x: x(), y: { field: "budget", type: "quantitative" } },
       },
-      ...haloText(chosenRows.map((r) => ({ ...r, label: `C = ${num(r.budget)}` })), {
+      ...haloText(chosenRows.map((r) => ({ ...r, label: `${words.short} = ${num(r.budget)}` })), {
         mark: { ...side, baseline: "bottom", dy: -4, fontSize: 11, color: COLORS.chosen },
         encoding: {
           x: x(),
@@ -248,9 +304,15 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
       text: title(headline(result)),
       subtitle: subtitle([
         "Top: each coefficient of the all-rows fit on the standardized scale (w* = s·w).",
-        "Bottom, the constraint reading: the same fits minimize training error subject to " +
-        "Σ γ w*² ≤ C(λ).",
-        `Largest at the chosen λ: ${largest(result, labels, 3)}; ${foldWords(result.folds)}.`,
+        ...(result.scale === "alpha"
+          ? [
+            "Read right to left: as α falls, coefficients enter the model one by one; a dot " +
+            "marks the largest α at which each is nonzero.",
+          ]
+          : []),
+        words.reading,
+        `Largest at the chosen ${sym}: ${largest(result, labels, 3)}; ` +
+        `${foldWords(result.folds)}.`,
         ...notes,
       ]),
     },
@@ -273,13 +335,15 @@ function linesShown(result: PathSource, first: number): number[] {
 function singlePointSpec(result: PathSource): VegaLiteSpec {
   const point = result.curve[result.chosen.index];
   const rows = point.path.map((w, q) => ({ term: result.names[q], w }));
+  const s = strengthSymbol(result.scale);
+  const short = budgetWords(result.scale).short;
   return {
     $schema: SCHEMA_URL,
     title: {
-      text: `One λ = ${num(point.strength)}: budget C = ${num(point.budget)}`,
+      text: `One ${s} = ${num(point.strength)}: ${short} = ${num(point.budget)}`,
       subtitle: subtitle([
-        "Only one λ was swept, so there is no path: the standardized coefficients w*_q of " +
-        `the all-rows fit at that λ (${foldWords(result.folds)}).`,
+        `Only one ${s} was swept, so there is no path: the standardized coefficients w*_q of ` +
+        `the all-rows fit at that ${s} (${foldWords(result.folds)}).`,
       ]),
     },
     width: SIZE.half + 100,

@@ -11,6 +11,7 @@
  */
 import type { CurvePoint } from "../../sweep/sweep.ts";
 import type { Choice } from "../../sweep/select.ts";
+import { type StrengthScale, strengthSymbol } from "../../fit/penalty.ts";
 import type { VegaLiteSpec } from "../render.ts";
 import { ROW_LIMIT, spreadIndices, thinningNote } from "./sample.ts";
 import { showChart } from "./show.ts";
@@ -48,6 +49,8 @@ export interface CurveSource {
   readonly chosen: Choice;
   readonly notes: readonly string[];
   readonly folds: PlanWords;
+  /** Which convention the curve's strengths are on: ridge λ or sparse α. */
+  readonly scale: StrengthScale;
 }
 
 /** Options of {@link validationCurveChart}. */
@@ -91,9 +94,10 @@ export function validationCurveChart(
 
 /** The title line: the chosen λ, how and on which folds. */
 function headline(result: CurveSource): string {
+  const s = strengthSymbol(result.scale);
   const lambda = result.chosen.strength === 0
-    ? "λ = 0 (no penalty)"
-    : `λ = ${num(result.chosen.strength)}`;
+    ? `${s} = 0 (no penalty)`
+    : `${s} = ${num(result.chosen.strength)}`;
   return `Chosen ${lambda} by ${ruleWords(result.chosen.rule)} (${foldWords(result.folds)})`;
 }
 
@@ -103,10 +107,14 @@ function numbersSentences(result: CurveSource): string[] {
   const chosen = result.curve[result.chosen.index];
   const at = (p: CurvePoint) => `${num(p.cvMean)} ± ${num(p.cvSe)}`;
   const lam = (l: number) => (l === 0 ? "0 (no penalty)" : num(l));
-  const first = `Smallest CV error ${at(min)} (mean ± SE) at λ = ${lam(min.strength)}.`;
+  const s = strengthSymbol(result.scale);
+  const df = result.scale === "alpha"
+    ? `${chosen.nonzero} nonzero coefficients`
+    : `${num(chosen.df)} effective df`;
+  const first = `Smallest CV error ${at(min)} (mean ± SE) at ${s} = ${lam(min.strength)}.`;
   const second = result.chosen.index === result.minimum.index
-    ? `There: ${num(chosen.df)} effective df; ${result.target}, ${result.n} rows.`
-    : `At the chosen λ: ${at(chosen)}, ${num(chosen.df)} effective df (${result.n} rows).`;
+    ? `There: ${df}; ${result.target}, ${result.n} rows.`
+    : `At the chosen ${s}: ${at(chosen)}, ${df} (${result.n} rows).`;
   return [first, second];
 }
 
@@ -129,7 +137,7 @@ function curveSpec(
   const showFolds = options.folds ?? foldCount <= FOLD_CURVES_DEFAULT_LIMIT;
   const yTop = yDomainTop(result, positive, zero);
   const notes: string[] = [...result.notes];
-  const clipped = clipNote(positive, yTop, showFolds);
+  const clipped = clipNote(positive, yTop, showFolds, result.scale);
   if (clipped) notes.push(clipped);
   if (zero) {
     notes.push(
@@ -158,7 +166,7 @@ function curveSpec(
       data: { values: curveRows },
       mark: { type: "area", color: COLORS.band, opacity: 0.7, clip: true },
       encoding: {
-        x: x(bottomAxis(lo, hi)),
+        x: x(bottomAxis(lo, hi, result.scale)),
         y: {
           ...y,
           field: "lo",
@@ -196,7 +204,14 @@ function curveSpec(
   });
   layers.push(
     line(series.domain[1], "train", 1.8),
-    line(series.domain[0], "cv", 2.4, dfAxis(positive, lo, hi, width, result.curve)),
+    line(
+      series.domain[0],
+      "cv",
+      2.4,
+      result.scale === "alpha"
+        ? nonzeroAxis(positive, lo, hi, width)
+        : dfAxis(positive, lo, hi, width, result.curve),
+    ),
   );
   if (zero) layers.push(...zeroLayers(zero, width));
   layers.push(...choiceLayers(result, x, [lo, hi, width]));
@@ -249,11 +264,13 @@ function seriesScale(foldCount: number, showFolds: boolean) {
   };
 }
 
-/** λ ticks at powers of ten along the bottom. */
-function bottomAxis(lo: number, hi: number) {
+/** λ (or α) ticks at powers of ten along the bottom. */
+function bottomAxis(lo: number, hi: number, scale: StrengthScale) {
   return {
     orient: "bottom",
-    title: "λ, penalty strength (log scale)",
+    title: scale === "alpha"
+      ? "α, sparse penalty strength, 1/(2N) convention (log scale)"
+      : "λ, penalty strength (log scale)",
     values: logTicks(lo, hi),
     format: "~g",
     grid: true,
@@ -300,6 +317,35 @@ function dfAxis(
   };
 }
 
+/**
+ * The top axis of a sparse curve: at each α where the all-rows solution's nonzero count changes
+ * (the largest α with that count, where the next coefficient has entered), that count.
+ */
+function nonzeroAxis(positive: readonly Indexed[], lo: number, hi: number, width: number) {
+  const pixel = (a: number) => (width * Math.log(a / lo)) / Math.log(hi / lo);
+  const ticks: { strength: number; count: number }[] = [];
+  for (let i = positive.length - 1; i >= 0; i--) {
+    const { p } = positive[i];
+    const above = i + 1 < positive.length ? positive[i + 1].p.nonzero : -1;
+    if (p.nonzero === above) continue;
+    if (ticks.every((t) => Math.abs(pixel(t.strength) - pixel(p.strength)) >= DF_LABEL_GAP)) {
+      ticks.push({ strength: p.strength, count: p.nonzero });
+    }
+  }
+  const p = positive[0].p.path.length;
+  return {
+    orient: "top",
+    title: `nonzero coefficients of ${p} (all-rows fit; each count at the largest α with it)`,
+    values: ticks.map((t) => t.strength),
+    labelExpr: `[${ticks.map((t) => JSON.stringify(String(t.count))).join(",")}][indexof([${
+      ticks.map((t) => String(t.strength)).join(",")
+    }], datum.value)]`,
+    grid: false,
+    labelColor: COLORS.muted,
+    titleColor: COLORS.muted,
+  };
+}
+
 function lambdaAtDf(positive: readonly Indexed[], df: number): number | undefined {
   for (let i = 1; i < positive.length; i++) {
     const a = positive[i - 1].p;
@@ -333,13 +379,19 @@ function yDomainTop(
   return 1.04 * Math.min(Math.max(all, zero ? zero.cvMean : 0), right);
 }
 
-function clipNote(positive: readonly Indexed[], top: number, showFolds: boolean): string {
+function clipNote(
+  positive: readonly Indexed[],
+  top: number,
+  showFolds: boolean,
+  scale: StrengthScale,
+): string {
   const above = positive.filter(({ p }) => p.cvMean > top);
   if (above.length > 0) {
+    const s = strengthSymbol(scale);
     const worst = above.reduce((a, b) => (b.p.cvMean > a.p.cvMean ? b : a));
     const edge = above[above.length - 1].p.strength;
-    return `For λ ≤ ${num(edge)} the mean CV error runs above the top edge ` +
-      `(up to ${num(worst.p.cvMean)} at λ = ${num(worst.p.strength)}).`;
+    return `For ${s} ≤ ${num(edge)} the mean CV error runs above the top edge ` +
+      `(up to ${num(worst.p.cvMean)} at ${s} = ${num(worst.p.strength)}).`;
   }
   const cut = positive.some(({ p }) =>
     p.cvMean + p.cvSe > top || (showFolds && p.foldMse.some((e) => e > top))
@@ -363,7 +415,8 @@ function foldRows(positive: readonly Indexed[], result: CurveSource, series: str
       series,
     }))
   );
-  const note = thinningNote(picked.length, positive.length, "λ values of the fold curves", "λ");
+  const s = strengthSymbol(result.scale);
+  const note = thinningNote(picked.length, positive.length, `${s} values of the fold curves`, s);
   return { rows, note };
 }
 
@@ -396,24 +449,25 @@ function choiceLayers(
   const min = result.curve[result.minimum.index];
   const chosen = result.curve[result.chosen.index];
   const same = result.minimum.index === result.chosen.index;
+  const s = strengthSymbol(result.scale);
   const marks = same
     ? [{
       strength: chosen.strength,
       cv: chosen.cvMean,
-      label: `chosen = minimum, λ = ${num(chosen.strength)}`,
+      label: `chosen = minimum, ${s} = ${num(chosen.strength)}`,
       kind: "chosen",
     }]
     : [
       {
         strength: chosen.strength,
         cv: chosen.cvMean,
-        label: `chosen, λ = ${num(chosen.strength)}`,
+        label: `chosen, ${s} = ${num(chosen.strength)}`,
         kind: "chosen",
       },
       {
         strength: min.strength,
         cv: min.cvMean,
-        label: `minimum, λ = ${num(min.strength)}`,
+        label: `minimum, ${s} = ${num(min.strength)}`,
         kind: "minimum",
       },
     ];
@@ -507,9 +561,10 @@ function singleLambdaSpec(result: CurveSource): VegaLiteSpec {
   const rows = point.foldMse.map((mse, fold) => ({ fold: fold + 1, mse }));
   const se = Number.isFinite(point.cvSe) ? point.cvSe : 0;
   const stats = [{ mean: point.cvMean, lo: point.cvMean - se, hi: point.cvMean + se }];
+  const s = strengthSymbol(result.scale);
   const lambdaWords = point.strength === 0
-    ? "No penalty (λ = 0)"
-    : `One λ = ${num(point.strength)}`;
+    ? `No penalty (${s} = 0)`
+    : `One ${s} = ${num(point.strength)}`;
   const foldAxis = {
     field: "fold",
     type: "ordinal",
@@ -521,7 +576,7 @@ function singleLambdaSpec(result: CurveSource): VegaLiteSpec {
       text: `${lambdaWords}: CV error ${num(point.cvMean)} ± ${num(point.cvSe)}`,
       subtitle: subtitle([
         `${foldWords(result.folds)}; ${result.target}, ${result.n} rows.`,
-        "Only one λ was swept, so there is no curve: each dot is one fold's validation " +
+        `Only one ${s} was swept, so there is no curve: each dot is one fold's validation ` +
         "error, the line their mean and the band ±1 SE.",
       ]),
     },
