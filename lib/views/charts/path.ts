@@ -199,6 +199,13 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
     titleLimit: legendWidth,
     labelLimit: legendWidth - 20,
   };
+  const termColor = {
+    field: "term",
+    type: "nominal",
+    sort: names,
+    scale: { domain: names, range: names.map((_, i) => SERIES[i % SERIES.length]) },
+    legend,
+  };
   const top = {
     width,
     height: SIZE.tall - 20,
@@ -219,13 +226,7 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
             type: "quantitative",
             axis: { title: "standardized coefficient w*" },
           },
-          color: {
-            field: "term",
-            type: "nominal",
-            sort: names,
-            scale: { domain: names, range: names.map((_, i) => SERIES[i % SERIES.length]) },
-            legend,
-          },
+          color: termColor,
           strokeDash: {
             field: "term",
             type: "nominal",
@@ -245,7 +246,7 @@ function pathSpec(result: PathSource, positive: readonly number[], notes: string
           encoding: {
             x: x(),
             y: { field: "w", type: "quantitative" },
-            color: { field: "term", type: "nominal", sort: names, legend: null },
+            color: termColor,
           },
         }]
         : []),
