@@ -11,6 +11,7 @@ import {
   curb,
   CurbfitError,
   curbPlan,
+  elasticNet,
   equivalentCall,
   indicators,
   kFoldPlan,
@@ -653,4 +654,82 @@ Deno.test("equivalentCall refuses a result that did not come from curb", () => {
     assert.equal(e.code, "BAD_OPTION");
     return true;
   });
+});
+
+Deno.test("sparse penalties: penalty lasso / elastic-net mix ρ and alpha lines run the API's sweep", async () => {
+  const result = await curb`
+    data ${data}
+    predict y
+    terms legendre x degree 6, column z1, column z2
+    penalty elastic-net mix 0.3
+    alpha 20 points ratio 1e-3
+    folds 5 seed 11
+    rule one-se
+  ` as SweepResult;
+  const direct = sweep(data, {
+    target: "y",
+    terms: [legendre("x", 6), column("z1"), column("z2")],
+    penalty: elasticNet({ mix: 0.3 }),
+    alphas: { count: 20, ratio: 1e-3 },
+    folds: { k: 5, seed: 11 },
+    rule: "one-se",
+  });
+  assert.equal(result.scale, "alpha");
+  assert.deepEqual(numbers(result), numbers(direct));
+  const call = equivalentCall(result);
+  assert.match(call.code, /elasticNet\(\{ mix: 0\.3 \}\)/);
+  assert.match(call.code, /alphas: \{ count: 20, ratio: 0\.001 \}/);
+  const again = await evaluate(call, { data }) as SweepResult;
+  assert.deepEqual(numbers(again), numbers(result));
+  const lassoPlan = curbPlan`
+    data ${data}
+    predict y
+    terms column z1, column z2
+    penalty lasso
+    α 0.001, 0.01, 0.1
+  `;
+  assert.match(lassoPlan.call.code, /penalty: lasso\(\)/);
+  assert.match(lassoPlan.call.code, /alphas: \[0\.001, 0\.01, 0\.1\]/);
+});
+
+Deno.test("sparse penalties: γ or λ with lasso, α with ridge, a bad mix — errors at their line", () => {
+  const cases: [string, RegExp, () => unknown][] = [
+    ["lasso with gamma", /line 6.*γ weights and a lasso penalty/s, () =>
+      curbPlan`
+    data ${data}
+    predict y
+    terms column z1
+    penalty lasso
+    gamma rising 2
+  `],
+    ["alpha with lambda", /line 6.*α grid and a λ grid/s, () =>
+      curbPlan`
+    data ${data}
+    predict y
+    terms column z1
+    lambda 0.1, 1
+    alpha 0.1
+  `],
+    ["mix out of range", /line 4.*mix is 1\.5/s, () =>
+      curbPlan`
+    data ${data}
+    predict y
+    penalty elastic-net mix 1.5
+    terms column z1
+  `],
+    ["a misspelt penalty", /Did you mean "lasso"/, () =>
+      curbPlan`
+    data ${data}
+    predict y
+    penalty laso
+    terms column z1
+  `],
+  ];
+  for (const [what, message, run] of cases) {
+    assert.throws(run, (e: unknown) => {
+      assert.ok(e instanceof MagicError, what);
+      assert.match((e as Error).message, message, what);
+      return true;
+    });
+  }
 });

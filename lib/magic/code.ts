@@ -11,7 +11,7 @@
  * @module
  */
 import type { Json, Term } from "../design/types.ts";
-import type { RidgePenalty } from "../fit/penalty.ts";
+import { isSparse, type Penalty } from "../fit/penalty.ts";
 import { escapeHtml } from "../views/escape.ts";
 import { isFoldPlan } from "../sweep/folds.ts";
 import type { Job } from "./job.ts";
@@ -130,7 +130,7 @@ function asCode(spec: object, uses: Set<string>): Record<string, unknown> {
   for (const [key, value] of Object.entries(spec)) {
     if (value === undefined) continue;
     if (key === "terms") out[key] = (value as Term[]).map((t) => new Raw(termCode(t.spec, uses)));
-    else if (key === "penalty") out[key] = new Raw(penaltyCode(value as RidgePenalty, uses));
+    else if (key === "penalty") out[key] = new Raw(penaltyCode(value as Penalty, uses));
     else if (key === "folds" && isFoldPlan(value)) out[key] = new Raw("plan");
     else out[key] = value;
   }
@@ -157,7 +157,11 @@ function termCode(spec: Json, uses: Set<string>): string {
   }
 }
 
-function penaltyCode(p: RidgePenalty, uses: Set<string>): string {
+function penaltyCode(p: Penalty, uses: Set<string>): string {
+  if (isSparse(p)) {
+    uses.add(p.kind === "lasso" ? "lasso" : "elasticNet");
+    return p.kind === "lasso" ? "lasso()" : `elasticNet({ mix: ${p.mix} })`;
+  }
   uses.add("ridge");
   if (typeof p.weights !== "string") return `ridge({ weights: ${literal(p.weights, 0)} })`;
   if (p.weights === "equal") return "ridge()";

@@ -70,6 +70,7 @@ function modelOf(s: Settings): Omit<SweepSpec, "target"> & { terms: SweepSpec["t
     terms: (s.terms ?? []).map((t) => t.term),
     penalty: s.penalty,
     lambdas: s.lambdas,
+    alphas: s.alphas,
     rule: s.rule,
     standardize: s.standardize,
     intercept: s.intercept,

@@ -10,7 +10,8 @@
  */
 import type { Term } from "../design/types.ts";
 import { column, indicators, legendre, MAX_DEGREE, power, product } from "../design/mod.ts";
-import { ridge, type RidgePenalty, type RidgeWeights } from "../fit/penalty.ts";
+import { type Penalty, ridge, type RidgeWeights } from "../fit/penalty.ts";
+import { type AlphaGrid, elasticNet, lasso } from "../sparse/mod.ts";
 import type { FoldPlan } from "../folds/mod.ts";
 import type { LambdaGrid } from "../sweep/grid.ts";
 import type { SelectionRule } from "../sweep/select.ts";
@@ -28,6 +29,7 @@ export const STATEMENTS = [
   "penalty",
   "gamma",
   "lambda",
+  "alpha",
   "folds",
   "rule",
   "scale",
@@ -40,13 +42,15 @@ export const STATEMENTS = [
 export type Statement = typeof STATEMENTS[number];
 
 /** Symbols accepted in place of a statement word. */
-const SYMBOLS: Readonly<Record<string, Statement>> = { "γ": "gamma", "λ": "lambda" };
+const SYMBOLS: Readonly<Record<string, Statement>> = { "γ": "gamma", "λ": "lambda", "α": "alpha" };
 
 /** Words from the programming interface and elsewhere, mapped to the statement that says it. */
 const INSTEAD: Readonly<Record<string, Statement>> = {
   target: "predict",
   response: "predict",
   lambdas: "lambda",
+  alphas: "alpha",
+  mix: "penalty",
   weights: "gamma",
   standardize: "scale",
   seed: "folds",
@@ -83,8 +87,9 @@ export interface FoldsNode {
 /** Model settings of one section (shared, or one candidate). Absent means "not said here". */
 export interface Settings {
   readonly terms?: readonly TermNode[];
-  readonly penalty?: RidgePenalty;
+  readonly penalty?: Penalty;
   readonly lambdas?: LambdaGrid;
+  readonly alphas?: AlphaGrid;
   readonly rule?: SelectionRule;
   readonly standardize?: boolean;
   readonly intercept?: boolean;
@@ -127,9 +132,10 @@ export interface CurbProgram {
 interface Section {
   readonly seen: Map<Statement, number>;
   terms?: TermNode[];
-  penaltyNamed?: boolean;
+  penaltyNamed?: { readonly kind: Penalty["kind"]; readonly mix?: number; readonly spot: Spot };
   gamma?: { readonly weights: RidgeWeights; readonly exponent?: number; readonly spot: Spot };
   lambdas?: LambdaGrid;
+  alphas?: AlphaGrid;
   rule?: SelectionRule;
   standardize?: boolean;
   intercept?: boolean;
@@ -183,18 +189,16 @@ export function parseTemplate(
         section.terms = [...(section.terms ?? []), ...readTerms(c)];
         break;
       case "penalty":
-        c.word(
-          ["ridge"],
-          'a penalty ("ridge")',
-          'Only "ridge" (λ Σ γ_q w_q²) is available; set γ on a "gamma" line',
-        );
-        section.penaltyNamed = true;
+        section.penaltyNamed = readPenalty(c);
         break;
       case "gamma":
         section.gamma = readGamma(c);
         break;
       case "lambda":
         section.lambdas = readLambda(c);
+        break;
+      case "alpha":
+        section.alphas = readAlpha(c);
         break;
       case "folds":
         folds = readFolds(c);
@@ -233,6 +237,9 @@ export function parseTemplate(
       case "candidate":
         sections.push({ seen: new Map(), candidate: readCandidateName(c, sections) });
         break;
+    }
+    if (["penalty", "gamma", "lambda", "alpha"].includes(statement)) {
+      checkPairing(c, section, line.tokens[0].spot);
     }
     c.end(statement);
     if (statement !== "candidate") sections[sections.length - 1].seen.set(statement, line.number);
@@ -458,6 +465,89 @@ function readGamma(c: Cursor): NonNullable<Section["gamma"]> {
   }
   c.build(spot, () => ridge(exponent === undefined ? { weights } : { weights, exponent }));
   return { weights, ...(exponent === undefined ? {} : { exponent }), spot };
+}
+
+/**
+ * Within one section: γ and λ belong to ridge, α to lasso / elastic net. A mix is an error at
+ * the line that makes it (across sections, the API reports it naming the option).
+ */
+function checkPairing(c: Cursor, s: Section, spot: Spot): void {
+  const kind = s.penaltyNamed?.kind ?? (s.alphas !== undefined ? undefined : "ridge");
+  const sparse = kind === "lasso" || kind === "elastic-net";
+  if (sparse && (s.gamma !== undefined || s.lambdas !== undefined)) {
+    throw c.error(
+      `${s.gamma !== undefined ? "γ weights" : "a λ grid"} and a ${kind} penalty are in the ` +
+        "same section, but γ and λ belong to ridge",
+      'Give the sparse strength on an "alpha" line (1/(2N) convention), or use "penalty ridge"',
+      spot,
+    );
+  }
+  if (
+    s.alphas !== undefined && (s.gamma !== undefined || s.lambdas !== undefined ||
+      s.penaltyNamed?.kind === "ridge")
+  ) {
+    const ridgeSide = s.lambdas !== undefined
+      ? "a λ grid"
+      : s.gamma !== undefined
+      ? "γ weights"
+      : "a ridge penalty";
+    throw c.error(
+      `an α grid and ${ridgeSide} are in the same section, but α belongs to lasso and elastic ` +
+        "net",
+      'Write "penalty lasso" or "penalty elastic-net mix 0.5" with the "alpha" line, or use ' +
+        '"lambda" for ridge',
+      spot,
+    );
+  }
+}
+
+const PENALTY_HINT = '"ridge" (λ Σ γ_q w*_q², sum-of-squares units; γ on a "gamma" line), ' +
+  '"lasso" or "elastic-net [mix ρ]" (α-scaled, 1/(2N) convention; strength on an "alpha" line)';
+
+function readPenalty(c: Cursor): NonNullable<Section["penaltyNamed"]> {
+  const spot = c.peek()?.spot;
+  const kind = c.word(
+    ["ridge", "lasso", "elastic-net"],
+    'a penalty ("ridge", "lasso" or "elastic-net")',
+    PENALTY_HINT,
+  ) as Penalty["kind"];
+  if (kind !== "elastic-net" || !c.isWord("mix")) return { kind, spot: spot! };
+  c.take();
+  const mix = c.number('the L1 share ρ after "mix" (a number > 0 and <= 1)', PENALTY_HINT);
+  c.build(mix.spot, () => elasticNet({ mix: mix.value }));
+  return { kind, mix: mix.value, spot: spot! };
+}
+
+const ALPHA_HINT = 'Write values ("alpha 0.001, 0.01, 0.1"), an automatic path ("alpha 50 points ' +
+  'ratio 1e-3": from the largest useful α down to 1e-3 of it) or ${…}';
+
+function readAlpha(c: Cursor): AlphaGrid {
+  const t = c.peek();
+  if (t?.kind === "number" && c.peek(1)?.kind === "word" && c.peek(1)?.text === "points") {
+    const count = c.integer("a whole number of points from 2 to 10000", 2, 10000, ALPHA_HINT);
+    c.take();
+    if (!c.isWord("ratio")) return { count: count.value };
+    c.take();
+    const ratio = c.number('the smallest α as a share of the largest, after "ratio"', ALPHA_HINT);
+    if (!(ratio.value > 0 && ratio.value < 1)) {
+      throw c.error(
+        `the ratio is ${ratio.value}, but it must be > 0 and < 1`,
+        ALPHA_HINT,
+        ratio.spot,
+      );
+    }
+    return { count: count.value, ratio: ratio.value };
+  }
+  const list = c.numbers('α values, a count of "points", or ${…}', ALPHA_HINT);
+  const bad = list.values.findIndex((v) => !(Number.isFinite(v) && v > 0));
+  if (bad >= 0) {
+    throw c.error(
+      `α value ${bad + 1} is ${list.values[bad]}, but every α must be a finite number > 0`,
+      "Remove zero, negative or infinite values",
+      list.spot,
+    );
+  }
+  return list.values;
 }
 
 const LAMBDA_HINT =
@@ -697,7 +787,12 @@ function missing(last: SourceLine, spot: Spot, statement: Statement, hint: strin
 }
 
 function settingsOf(s: Section): Settings {
-  const penalty = s.penaltyNamed || s.gamma !== undefined
+  const named = s.penaltyNamed;
+  const penalty = named?.kind === "lasso"
+    ? lasso()
+    : named?.kind === "elastic-net"
+    ? elasticNet(named.mix === undefined ? {} : { mix: named.mix })
+    : named || s.gamma !== undefined
     ? ridge(
       s.gamma === undefined
         ? {}
@@ -710,6 +805,7 @@ function settingsOf(s: Section): Settings {
     terms: s.terms,
     penalty,
     lambdas: s.lambdas,
+    alphas: s.alphas,
     rule: s.rule,
     standardize: s.standardize,
     intercept: s.intercept,
