@@ -67,6 +67,18 @@ const SWEEP = [
   "legendre:days_since_blossom:4",
 ];
 
+const FIT_SHADE = [
+  "fit",
+  "--data",
+  ORCHARD,
+  "--target",
+  "brix",
+  "--term",
+  "legendre:days_since_blossom:4",
+  "--term",
+  "column:shade_share",
+];
+
 /** Bad inputs: arguments and what the one stderr line must name. */
 const BAD: readonly { name: string; args: string[]; mentions: string[] }[] = [
   {
@@ -239,6 +251,26 @@ const BAD: readonly { name: string; args: string[]; mentions: string[] }[] = [
     mentions: ["--lambdas", "--lambda-count"],
   },
   { name: "verify without a record", args: ["verify"], mentions: ["record file"] },
+  {
+    name: "a sparse penalty in sweep (records hold ridge sweeps only)",
+    args: [...SWEEP, "--penalty", "lasso"],
+    mentions: ["--penalty", "lasso", "ridge sweeps only", "curbfit fit --penalty lasso --alpha"],
+  },
+  {
+    name: "λ with a lasso fit",
+    args: [...FIT_SHADE, "--penalty", "lasso", "--lambda", "1"],
+    mentions: ["--lambda", "lasso", "alpha"],
+  },
+  {
+    name: "α with a ridge fit",
+    args: [...FIT_SHADE, "--alpha", "0.1"],
+    mentions: ["--alpha", "ridge", "lasso"],
+  },
+  {
+    name: "elastic net with an L1 share above 1",
+    args: [...FIT_SHADE, "--penalty", "elastic-net:1.5", "--alpha", "0.1"],
+    mentions: ["--penalty", "1.5"],
+  },
 ];
 
 for (const bad of BAD) {
@@ -577,4 +609,26 @@ Deno.test("cli: README's Command line section documents every command, option an
     }
   }
   for (const code of ["0", "1", "2"]) assert.match(section, new RegExp(`\\| \`?${code}\`? +\\|`));
+});
+
+Deno.test("cli: fit --penalty lasso / elastic-net --alpha: α on the report, the objective stated", async () => {
+  const out = await Deno.makeTempDir();
+  for (const penalty of ["lasso", "elastic-net:0.5"]) {
+    const ran = await runTask("curbfit", [
+      ...FIT_SHADE,
+      "--penalty",
+      penalty,
+      "--alpha",
+      "0.05",
+      "--out",
+      out,
+    ]);
+    assert.equal(ran.code, 0, ran.stderr);
+    assert.match(ran.stdout, /α = 0\.05/);
+    assert.doesNotMatch(ran.stdout, /λ/);
+    const statement = await Deno.readTextFile(join(out, "statement.md"));
+    assert.match(statement, /1\/\(2N\)/, "the objective, in the 1/(2N) convention");
+    assert.match(statement, /α = 0\.05/);
+  }
+  await Deno.remove(out, { recursive: true });
 });

@@ -75,6 +75,12 @@ const penalty: OptionSpec = {
   value: "PENALTY",
   help: "ridge (γ = 1, default), ridge:rising[:E], ridge:falling[:E] or ridge:W1,W2,…",
 };
+const fitPenalty: OptionSpec = {
+  name: "penalty",
+  value: "PENALTY",
+  help: "ridge (γ = 1, default), ridge:rising[:E], ridge:falling[:E], ridge:W1,W2,…, " +
+    "lasso, or elastic-net[:MIX] (L1 share, default 0.5; strength --alpha)",
+};
 const scale: OptionSpec = {
   name: "scale",
   value: "SCALE",
@@ -201,21 +207,32 @@ export const COMMANDS: readonly CommandSpec[] = [
   },
   {
     name: "fit",
-    summary: "fit one model at a given λ (or penalty budget) on all rows; write the report",
+    summary:
+      "fit one model at a given λ (or budget), or lasso / elastic net at an α, on all rows; " +
+      "write the report",
     options: [
       data,
       target,
       missing,
       category,
       term,
-      penalty,
+      fitPenalty,
       scale,
       intercept,
-      { name: "lambda", value: "X", help: "penalty strength λ >= 0 (default 0)" },
+      {
+        name: "lambda",
+        value: "X",
+        help: "ridge strength λ >= 0, sum-of-squares units (default 0)",
+      },
       {
         name: "budget",
         value: "C",
         help: "instead of λ: the penalty budget Σ γ_q w*_q² <= C to meet",
+      },
+      {
+        name: "alpha",
+        value: "A",
+        help: "lasso / elastic-net strength α > 0, 1/(2N) convention (not λ); required with them",
       },
       out,
     ],

@@ -43,14 +43,22 @@ export function fitBlocks(f: Fit, table: Table): Block[] {
             ? s.objective
             : describePenalty(s.penalty, s.standardize, s.hasIntercept)
         }; ${strengthSymbol(s.scale)} = ${n(s.strength)} ` +
-        `(penalty budget C = ${n(s.budget)}).`,
+        (s.descent === null
+          ? `(penalty budget C = ${n(s.budget)}).`
+          : `(P(w*) = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² = ${n(s.budget)}).`),
       ],
     },
     {
       kind: "paragraph",
       parts: [
-        `Effective degrees of freedom ${n(s.df)}, training MSE ${n(s.trainMse)}, residual SD ` +
-        `${n(s.residualSd)}, condition number ${n(s.condition)}.`,
+        s.descent === null
+          ? `Effective degrees of freedom ${n(s.df)}, training MSE ${n(s.trainMse)}, residual ` +
+            `SD ${n(s.residualSd)}, condition number ${n(s.condition)}.`
+          : `${s.nonzero} of ${s.names.length} coefficients nonzero, training MSE ` +
+            `${n(s.trainMse)}, condition number ${n(s.condition)}; coordinate descent ` +
+            `${s.descent.converged ? "converged" : "DID NOT converge"} (scaled KKT violation ` +
+            `${n(s.descent.violation)}, tolerance ${n(s.descent.tolerance)}; duality gap ` +
+            `${n(s.descent.gap)} per row).`,
       ],
     },
     { kind: "table", table: coefficientTable(s), digits: 6 },

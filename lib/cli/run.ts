@@ -9,6 +9,7 @@
 import { join } from "node:path";
 import { CurbfitError, describePlace } from "../errors/error.ts";
 import { readCsv } from "../table/mod.ts";
+import { strengthSymbol } from "../fit/penalty.ts";
 import type { LoadOptions, Table } from "../table/mod.ts";
 import { fit } from "../fit/fit.ts";
 import { sweep } from "../sweep/sweep.ts";
@@ -155,6 +156,7 @@ const FLAG_OF: Readonly<Record<string, string>> = {
   target: "--target",
   lambda: "--lambda",
   budget: "--budget",
+  alpha: "--alpha",
   rule: "--rule",
   lambdas: "--lambdas",
   "lambdas.count": "--lambda-count",
@@ -312,10 +314,13 @@ const RUNNERS: Readonly<Record<string, Runner>> = {
     const s = model.summary;
     io.out(
       showControls(
-        `curbfit fit: ${s.target} from ${table.source}, ${s.n} rows, λ = ${s.strength}`,
+        `curbfit fit: ${s.target} from ${table.source}, ${s.n} rows, ` +
+          `${strengthSymbol(s.scale)} = ${s.strength}`,
       ) +
         `\n\n${formatTextTable(coefficients(s), { digits: 6 })}\n\n` +
-        `training MSE ${s.trainMse.toPrecision(4)}, df ${s.df.toPrecision(4)}\n\n` +
+        `training MSE ${s.trainMse.toPrecision(4)}, ` +
+        (s.descent === null ? `df ${s.df.toPrecision(4)}` : `${s.nonzero} nonzero coefficients`) +
+        "\n\n" +
         wroteLines(paths, files) + "\n" +
         "Caution: no cross-validation was run, so the training error understates the error on new " +
         "rows; predictions outside the data's ranges are extrapolation.\n",

@@ -8,7 +8,7 @@
  */
 import type { LoadOptions } from "../table/mod.ts";
 import type { Term } from "../design/types.ts";
-import type { RidgePenalty } from "../fit/penalty.ts";
+import { isSparse, type Penalty } from "../fit/penalty.ts";
 import type { FitSpec } from "../fit/fit.ts";
 import type { SweepSpec } from "../sweep/sweep.ts";
 import type { Candidate } from "../sweep/compare.ts";
@@ -71,7 +71,7 @@ function targetOf(parsed: ParsedArgs): string {
 /** Settings of one model, read either from options or from a candidate's key=value pairs. */
 interface ModelSettings {
   readonly terms?: readonly Term[];
-  readonly penalty?: RidgePenalty;
+  readonly penalty?: Penalty;
   readonly standardize?: boolean;
   readonly intercept?: boolean;
   readonly lambdas?: LambdaGrid;
@@ -141,6 +141,22 @@ function lambdaSettings(
       ...(max !== undefined ? { max: parseNumber(max, label("lambda-max")) } : {}),
     },
   };
+}
+
+/**
+ * Settings whose sweep can be written as a model-choice record: `sweep` and `compare` always write
+ * one, and records hold ridge sweeps only in this version, so a lasso / elastic-net penalty is
+ * refused before any work (fit takes them).
+ */
+function recordable(settings: ModelSettings, where: string): ModelSettings {
+  if (settings.penalty === undefined || !isSparse(settings.penalty)) return settings;
+  throw usageError(
+    where,
+    `${where} is ${settings.penalty.kind}, but sweep and compare write a model-choice record, ` +
+      "and records hold ridge sweeps only in this version",
+    `Use "curbfit fit --penalty ${settings.penalty.kind} --alpha A" for one sparse model, or ` +
+      "sweep a sparse penalty with the API or the curb template",
+  );
 }
 
 /** The options' own settings (`--penalty`, `--lambdas`, …). */
@@ -214,7 +230,7 @@ function requireTerms(
  * ```
  */
 export function sweepSpec(parsed: ParsedArgs): SweepSpec {
-  const settings = optionSettings(parsed);
+  const settings = recordable(optionSettings(parsed), "--penalty");
   return {
     ...settings,
     target: targetOf(parsed),
@@ -242,6 +258,7 @@ export function fitSpec(parsed: ParsedArgs): FitSpec {
   const settings = optionSettings(parsed);
   const lambda = optionValue(parsed, "lambda");
   const budget = optionValue(parsed, "budget");
+  const alpha = optionValue(parsed, "alpha");
   if (lambda !== undefined && budget !== undefined) {
     throw usageError(
       "--budget",
@@ -269,6 +286,7 @@ export function fitSpec(parsed: ParsedArgs): FitSpec {
     ...(settings.intercept !== undefined ? { intercept: settings.intercept } : {}),
     ...(lambdaValue !== undefined ? { lambda: lambdaValue } : {}),
     ...(budget !== undefined ? { budget: parseNumber(budget, "--budget") } : {}),
+    ...(alpha !== undefined ? { alpha: parseNumber(alpha, "--alpha") } : {}),
   };
 }
 
@@ -309,7 +327,7 @@ export function compareCandidates(
   parsed: ParsedArgs,
   fileLines: readonly { readonly text: string; readonly where: string }[],
 ): Candidate[] {
-  const shared = optionSettings(parsed);
+  const shared = recordable(optionSettings(parsed), "--penalty");
   const texts = [
     ...optionValues(parsed, "candidate").map((text, i) => ({
       text,
@@ -321,10 +339,13 @@ export function compareCandidates(
     const settings = parseCandidate(text, where);
     const termsText = settings.get("terms");
     const terms = termsText === undefined ? shared.terms : parseTermList(termsText, where);
-    const own = modelSettings(
-      (key) => settings.get(key),
-      (key) => `${key}= in ${where}`,
-      terms,
+    const own = recordable(
+      modelSettings(
+        (key) => settings.get(key),
+        (key) => `${key}= in ${where}`,
+        terms,
+      ),
+      `penalty= in ${where}`,
     );
     return {
       ...shared,

@@ -30,7 +30,8 @@
 import { CurbfitError, describePlace, type ErrorCode } from "../errors/error.ts";
 import type { Json, Term } from "../design/types.ts";
 import { column, indicators, legendre, power, product } from "../design/mod.ts";
-import { ridge, type RidgePenalty } from "../fit/penalty.ts";
+import { type Penalty, ridge, type RidgePenalty } from "../fit/penalty.ts";
+import { elasticNet, lasso } from "../sparse/mod.ts";
 import { nearestWord } from "../magic/words.ts";
 
 /** Characters that end an unquoted name. */
@@ -364,7 +365,8 @@ export function formatTerm(spec: Json): string {
 
 /**
  * A penalty in the command-line syntax: `ridge`, `ridge:rising[:E]`, `ridge:falling[:E]`,
- * `ridge:W1,W2,…`.
+ * `ridge:W1,W2,…`; or `lasso`, `elastic-net[:MIX]` (MIX the L1 share ρ, default 0.5), whose
+ * strength is α in the 1/(2N) convention, not λ.
  *
  * @example
  * ```ts
@@ -372,10 +374,17 @@ export function formatTerm(spec: Json): string {
  * console.log(parsePenalty("ridge:rising:2", "--penalty")); // { kind: "ridge", weights: "rising", exponent: 2 }
  * ```
  */
-export function parsePenalty(text: string, option: string): RidgePenalty {
+export function parsePenalty(text: string, option: string): Penalty {
   const [kind, shape, exponent, ...extra] = text.trim().split(":").map((p) => p.trim());
   const hint =
-    "Write ridge, ridge:rising:2, ridge:falling:1 or ridge:1,2,4 (one γ per design column)";
+    "Write ridge, ridge:rising:2, ridge:falling:1 or ridge:1,2,4 (one γ per design column), " +
+    "lasso, or elastic-net:0.5 (the L1 share)";
+  if (kind === "lasso" && shape === undefined) return lasso();
+  if (kind === "elastic-net" && exponent === undefined) {
+    if (shape === undefined) return elasticNet();
+    const mix = parseNumber(shape, `the L1 share in ${option}`);
+    return asOption(option, text, () => elasticNet({ mix }));
+  }
   if (kind !== "ridge" || extra.length > 0) {
     throw usageError(
       option,
