@@ -39,14 +39,21 @@ export interface SparseSummaryContext {
 }
 
 /**
- * Solves the sparse problem on all rows of a design at one α.
+ * Solves the sparse problem on all rows of a design over the given α values (summarizing the
+ * rows once; solutions in decreasing α).
  *
  * @example
  * ```ts
- * import { fit, lasso, legendre } from "../../mod.ts";
+ * import { buildDesign, learnTerms, legendre } from "../design/mod.ts";
+ * import { tableFromColumns } from "../table/mod.ts";
+ * import { lasso } from "../sparse/mod.ts";
+ * import { allRowsPath } from "./sparse_fit.ts";
  * const x = Array.from({ length: 30 }, (_, i) => i / 29);
- * const m = fit({ x, y: x.map((v) => v * v) }, { target: "y", terms: [legendre("x", 5)], penalty: lasso(), alpha: 0.01 });
- * console.log(m.summary.scale, m.summary.df); // "alpha", nonzero count
+ * const table = tableFromColumns({ x });
+ * const design = buildDesign(learnTerms([legendre("x", 5)], table), table);
+ * const y = Float64Array.from(x, (v) => v * v);
+ * const path = allRowsPath(design, y, lasso(), [0.1, 0.01], { standardize: true, intercept: true });
+ * console.log(path.solutions.map((s) => s.nonzero)); // fewer nonzero at α = 0.1
  * ```
  */
 export function allRowsPath(
@@ -85,7 +92,11 @@ export function penaltyValue(mix: number, standardized: readonly number[]): numb
  *
  * @example
  * ```ts
- * // sparseSummary(path, path.solutions[0], { target, design, penalty, condition })
+ * import { fit, lasso, legendre } from "../../mod.ts";
+ * // fit() with a sparse penalty builds its summary here:
+ * const x = Array.from({ length: 30 }, (_, i) => i / 29);
+ * const m = fit({ x, y: x.map((v) => v * v) }, { target: "y", terms: [legendre("x", 5)], penalty: lasso(), alpha: 0.01 });
+ * console.log(m.summary.scale, m.summary.nonzero, m.summary.descent?.converged); // "alpha" … true
  * ```
  */
 export function sparseSummary(

@@ -208,7 +208,7 @@ export function describeProgress(
   const parts: string[] = [];
   if (p.stage === "summaries") parts.push(`summarizing folds (repeat ${p.done + 1} of ${p.total})`);
   if (p.stage === "folds") parts.push(`fold ${p.done} of ${p.total}`);
-  if (p.stage === "refit") parts.push(p.done < p.total ? "refitting the chosen λ" : "refit done");
+  if (p.stage === "refit") parts.push(p.done < p.total ? "fitting the chosen model" : "refit done");
   const index = p.candidate === undefined ? -1 : candidates.indexOf(p.candidate);
   if (index >= 0) {
     parts.push(`candidate ${index + 1} of ${candidates.length} ${JSON.stringify(p.candidate)}`);

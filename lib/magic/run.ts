@@ -16,6 +16,7 @@ import type { Named } from "./cursor.ts";
 import type { Job } from "./job.ts";
 import type { CurbProgram, DataNode } from "./parser.ts";
 import { nearestWord } from "./words.ts";
+import { ridge, strengthScale, strengthSymbol } from "../fit/penalty.ts";
 
 /** What a `curb` template returns: the very objects `sweep` and `compare` return. */
 export type CurbResult = SweepResult | ComparisonResult;
@@ -121,7 +122,9 @@ function titleOf(job: Job, table: Table): string {
     : folds.holdout !== undefined
     ? "a held-out split"
     : `${folds.k ?? Math.min(10, table.nRows)} folds`;
-  const what = job.kind === "sweep" ? "sweeping λ" : `comparing ${job.candidates.length} models`;
+  const what = job.kind === "sweep"
+    ? `sweeping ${strengthSymbol(strengthScale(job.spec.penalty ?? ridge()))}`
+    : `comparing ${job.candidates.length} models`;
   return `${what} on ${table.nRows} rows with ${split}`;
 }
 
@@ -130,7 +133,8 @@ async function resultBundle(result: CurbResult): Promise<Bundle> {
   const show = (result as unknown as Record<symbol, unknown>)[Symbol.for("Jupyter.display")];
   if (typeof show === "function") return await show.call(result) as Bundle;
   const lines = "candidates" in result ? result.verdict : [
-    `chosen λ = ${result.chosen.strength.toPrecision(4)} (rule ${result.chosen.rule}), ` +
+    `chosen ${strengthSymbol(result.scale)} = ${result.chosen.strength.toPrecision(4)} ` +
+    `(rule ${result.chosen.rule}), ` +
     `CV error ${result.curve[result.chosen.index].cvMean.toPrecision(4)} ± ` +
     `${result.curve[result.chosen.index].cvSe.toPrecision(2)}`,
     ...result.notes,
