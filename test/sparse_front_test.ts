@@ -25,11 +25,17 @@ import {
   recordOf,
   ridge,
   sweep,
+  sweepAsync,
   tableFromColumns,
 } from "./sweep_imports.ts";
 import { buildDesign, learnTerms } from "../lib/design/mod.ts";
 import { sparsePathFromRows, type SparsePenalty } from "../lib/sparse/mod.ts";
-import { comparisonChart, shrinkagePathChart, validationCurveChart } from "../mod.ts";
+import {
+  comparisonChart,
+  fittedCurveChart,
+  shrinkagePathChart,
+  validationCurveChart,
+} from "../mod.ts";
 import { assertValidVegaLite } from "./vl_assert.ts";
 import { relErr, subsetColumns, syntheticColumns } from "./helpers.ts";
 
@@ -39,7 +45,12 @@ const ALPHAS = [0.003, 0.01, 0.03, 0.1, 0.3];
 const TIGHT = 1e-12;
 
 /** Held-out MSE per fold and α, from rows: fold terms, fold design, sparsePathFromRows. */
-function bruteForce(penalty: SparsePenalty, k: number, seed: number): number[][] {
+function bruteForce(
+  penalty: SparsePenalty,
+  k: number,
+  seed: number,
+  read: { standardize?: boolean; intercept?: boolean } = {},
+): number[][] {
   const table = tableFromColumns(COLS);
   const s = sweep(table, {
     target: "y",
@@ -48,6 +59,7 @@ function bruteForce(penalty: SparsePenalty, k: number, seed: number): number[][]
     alphas: ALPHAS,
     folds: { k, seed },
     tolerance: TIGHT,
+    ...read,
   });
   const y = (table.columns.get("y") as { values: Float64Array }).values;
   const perFold: number[][] = [];
@@ -61,7 +73,7 @@ function bruteForce(penalty: SparsePenalty, k: number, seed: number): number[][]
       train.p,
       Float64Array.from(training, (i) => y[i]),
       penalty,
-      { alphas: ALPHAS, tolerance: TIGHT },
+      { alphas: ALPHAS, tolerance: TIGHT, ...read },
     );
     // path.solutions run in decreasing α; the curve in increasing α.
     perFold.push(
@@ -93,6 +105,23 @@ function bruteForce(penalty: SparsePenalty, k: number, seed: number): number[][]
 Deno.test("sparse sweep equals brute force per fold (lasso and elastic net) to 1e-8", () => {
   bruteForce(lasso(), 5, 11);
   bruteForce(elasticNet({ mix: 0.4 }), 4, 12);
+  bruteForce(lasso(), 5, 13, { standardize: false });
+  bruteForce(elasticNet({ mix: 0.7 }), 3, 14, { intercept: false });
+});
+
+Deno.test("sweepAsync gives the sparse sweep's numbers exactly", async () => {
+  const spec = {
+    target: "y",
+    terms: TERMS,
+    penalty: lasso(),
+    alphas: { count: 15 },
+    folds: { k: 4, seed: 8 },
+  };
+  const a = sweep(COLS, spec);
+  const b = await sweepAsync(COLS, spec);
+  assert.deepEqual(b.curve, a.curve);
+  assert.deepEqual(b.chosen, a.chosen);
+  assert.deepEqual(b.fit.summary, a.fit.summary);
 });
 
 /** Largest scaled KKT violation of a fit's solution, recomputed from all rows. */
@@ -263,4 +292,23 @@ Deno.test("records hold ridge sweeps only for now: a sparse sweep gets a clear e
     () => recordOf(s),
     (e: unknown) => e instanceof CurbfitError && /ridge sweeps only/.test(e.message),
   );
+});
+
+Deno.test("fitted curve of a one-input lasso sweep: curves at three α, each an all-rows sparse fit", async () => {
+  const one = { x: COLS.x, y: COLS.y };
+  const s = sweep(one, {
+    target: "y",
+    terms: [legendre("x", 8)],
+    penalty: lasso(),
+    alphas: { count: 20 },
+    folds: { k: 5, seed: 4 },
+    rule: "one-se",
+  });
+  const spec = fittedCurveChart(s, one);
+  await assertValidVegaLite(spec);
+  const json = JSON.stringify(spec);
+  assert.match(json, /chosen α = /);
+  const sub = (spec.title as { subtitle: string[] }).subtitle.join(" ");
+  assert.match(sub, /all-rows coordinate-descent fits at three α/);
+  assert.doesNotMatch(json, /λ/);
 });

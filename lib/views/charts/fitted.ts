@@ -12,6 +12,7 @@
  */
 import { CurbfitError } from "../../errors/error.ts";
 import { fit, type TableInput } from "../../fit/fit.ts";
+import { strengthSymbol } from "../../fit/penalty.ts";
 import type { SweepResult } from "../../sweep/sweep.ts";
 import { toTable } from "../../table/mod.ts";
 import type { Table } from "../../table/types.ts";
@@ -111,14 +112,18 @@ export function fittedCurveChart(result: SweepResult, data: Table | TableInput):
     scale: { domain: [lo - pad, hi + pad], nice: false },
   };
   const y = { field: "y", type: "quantitative", scale: { domain: yDomain, nice: false } };
+  const sym = strengthSymbol(result.scale);
   const spec = {
     $schema: SCHEMA_URL,
     title: {
       text: title(
-        `${result.target} against ${input} at the chosen λ = ${num(result.chosen.strength)}`,
+        `${result.target} against ${input} at the chosen ${sym} = ` +
+          num(result.chosen.strength),
       ),
       subtitle: subtitle([
-        `Dots: the ${xs.length} rows. Curves: exact all-rows refits at three λ; the chosen ` +
+        `Dots: the ${xs.length} rows. Curves: ${
+          result.scale === "alpha" ? "all-rows coordinate-descent fits" : "exact all-rows refits"
+        } at three ${sym}; the chosen ` +
         `one by ${ruleWords(result.chosen.rule)} (${foldWords(result.folds)}).`,
         `Shaded: outside the data's range of ${input}, [${num(lo)}, ${num(hi)}]: extrapolation.`,
         ...notes,
@@ -198,21 +203,25 @@ interface CurveChoice {
 /** The chosen λ, the minimum and the smallest grid λ, without repeats. */
 function chosenCurves(result: SweepResult): CurveChoice[] {
   const { curve, chosen, minimum } = result;
-  const df = (i: number) => `df ${num(curve[i].df)} of ${curve[i].path.length}`;
-  const lam = (l: number) => (l === 0 ? "0 (no penalty)" : num(l));
+  const df = (i: number) =>
+    result.scale === "alpha"
+      ? `${curve[i].nonzero} of ${curve[i].path.length} nonzero`
+      : `df ${num(curve[i].df)} of ${curve[i].path.length}`;
+  const s = strengthSymbol(result.scale);
+  const lam = (l: number) => `${s} = ${l === 0 ? "0 (no penalty)" : num(l)}`;
   const picks: (CurveChoice & { index: number })[] = [
     {
       index: chosen.index,
       strength: chosen.strength,
-      label: `chosen: λ = ${lam(chosen.strength)}, ${df(chosen.index)}`,
-      short: "chosen-λ",
+      label: `chosen: ${lam(chosen.strength)}, ${df(chosen.index)}`,
+      short: `chosen-${s}`,
       color: COLORS.chosen,
       dash: [1, 0],
     },
     {
       index: minimum.index,
       strength: minimum.strength,
-      label: `smallest CV error: λ = ${lam(minimum.strength)}, ${df(minimum.index)}`,
+      label: `smallest CV error: ${lam(minimum.strength)}, ${df(minimum.index)}`,
       short: "smallest-CV-error",
       color: COLORS.minimum,
       dash: [6, 3],
@@ -220,8 +229,8 @@ function chosenCurves(result: SweepResult): CurveChoice[] {
     {
       index: 0,
       strength: curve[0].strength,
-      label: `smallest grid λ = ${lam(curve[0].strength)}, ${df(0)}`,
-      short: "smallest-λ",
+      label: `smallest grid ${lam(curve[0].strength)}, ${df(0)}`,
+      short: `smallest-${s}`,
       color: COLORS.train,
       dash: [2, 2],
     },
@@ -229,7 +238,7 @@ function chosenCurves(result: SweepResult): CurveChoice[] {
   return picks.filter((p, i) => picks.findIndex((q) => q.index === p.index) === i);
 }
 
-/** The exact all-rows fit of the sweep's model at another λ. */
+/** The all-rows fit of the sweep's model at another strength (λ or α, as the sweep's scale). */
 function refit(result: SweepResult, table: Table, strength: number) {
   return fit(table, {
     target: result.target,
@@ -237,7 +246,7 @@ function refit(result: SweepResult, table: Table, strength: number) {
     penalty: result.fit.summary.penalty,
     standardize: result.standardize,
     intercept: result.intercept,
-    lambda: strength,
+    ...(result.scale === "alpha" ? { alpha: strength } : { lambda: strength }),
   });
 }
 
