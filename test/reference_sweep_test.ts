@@ -70,19 +70,19 @@ for (const [name, terms] of Object.entries(models)) {
     const ref: ReferenceModel = reference.models[name];
     const result = runSweep(terms);
     assert.deepEqual(result.names, ref.columns);
-    assert.deepEqual(result.curve.map((c) => c.lambda), reference.lambdas);
+    assert.deepEqual(result.curve.map((c) => c.strength), reference.lambdas);
     result.curve.forEach((point, l) => {
       // Source: scikit-learn 1.2.1 (Debian python3-sklearn), diabetes_ridge_cv.json.
       const cv = relErr(point.cvMean, ref.cvMean[l]);
       assert.ok(
         cv <= TOLERANCE,
-        `${name} λ=${point.lambda}: CV mean off by ${cv.toExponential(2)}`,
+        `${name} λ=${point.strength}: CV mean off by ${cv.toExponential(2)}`,
       );
       point.foldMse.forEach((mse, f) => {
         const e = relErr(mse, ref.foldMse[f][l]);
         assert.ok(
           e <= TOLERANCE,
-          `${name} λ=${point.lambda} fold ${f}: off by ${e.toExponential(2)}`,
+          `${name} λ=${point.strength} fold ${f}: off by ${e.toExponential(2)}`,
         );
       });
     });

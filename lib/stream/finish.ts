@@ -322,6 +322,7 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
     gamma: Array.from(options.gamma),
     standardize: options.standardize,
     intercept: options.intercept,
+    scale: "lambda",
     folds: {
       hash: FOLD_HASH,
       seed: input.seed,

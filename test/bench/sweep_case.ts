@@ -134,7 +134,7 @@ function runSweep(table: Table, o: CaseOptions): { check: number; stages: Record
     },
   });
   mark("finish (freeze result)");
-  return { check: result.chosen.lambda, stages };
+  return { check: result.chosen.strength, stages };
 }
 
 /** The design and its per-fold summaries, once; returns a checksum and the stage times. */
