@@ -18,10 +18,15 @@
  */
 export { CurbfitError, type ErrorCode, type ErrorPlace } from "./lib/errors/error.ts";
 export {
+  type CategoryColumn,
   type CellValue,
+  type Column,
   type ColumnArrays,
+  type ColumnKind,
   isTable,
   type LoadOptions,
+  type MissingReport,
+  type NumericColumn,
   parseCsv,
   readCsv,
   readCsvStream,
@@ -34,11 +39,14 @@ export {
 export {
   column,
   indicators,
+  type Json,
+  type LearnedTerm,
   legendre,
   type LegendreOptions,
   power,
   product,
   type Term,
+  type TermKind,
 } from "./lib/design/mod.ts";
 export {
   type Penalty,
@@ -76,14 +84,20 @@ export {
   type ComparisonResult,
   type PairedDifference,
 } from "./lib/sweep/compare.ts";
-export type { SelectionRule } from "./lib/sweep/select.ts";
+export type { Choice, SelectionRule } from "./lib/sweep/select.ts";
 export type { LambdaGrid } from "./lib/sweep/grid.ts";
 export type { FoldRequest } from "./lib/sweep/folds.ts";
 export {
+  type ExplicitOptions,
   explicitPlan,
   type FoldPlan,
+  type FoldScheme,
+  type GroupedKFoldOptions,
   groupedKFoldPlan,
+  type GroupLabels,
+  type HoldoutOptions,
   holdoutPlan,
+  type KFoldOptions,
   kFoldPlan,
   leaveOneOutPlan,
 } from "./lib/folds/mod.ts";
@@ -187,3 +201,6 @@ export {
   validationCurveChart,
   type ValidationOptions,
 } from "./lib/views/charts/mod.ts";
+export type { PlanWords } from "./lib/views/charts/theme.ts";
+export type { VegaLiteSpec } from "./lib/views/render.ts";
+export type { MimeBundle } from "./lib/views/bundle.ts";
