@@ -33,7 +33,12 @@ import {
   quoteName,
 } from "../lib/cli/syntax.ts";
 import { argvOf, rerunCommand } from "../lib/cli/rerun.ts";
-import { parseRecord } from "../lib/record/mod.ts";
+import {
+  isSparseModel,
+  modelStrengths,
+  parseRecord,
+  type RidgeModelSection,
+} from "../lib/record/mod.ts";
 import { escapeHtml } from "../lib/views/escape.ts";
 import {
   assertInertHtml,
@@ -252,9 +257,19 @@ const BAD: readonly { name: string; args: string[]; mentions: string[] }[] = [
   },
   { name: "verify without a record", args: ["verify"], mentions: ["record file"] },
   {
-    name: "a sparse penalty in sweep (records hold ridge sweeps only)",
-    args: [...SWEEP, "--penalty", "lasso"],
-    mentions: ["--penalty", "lasso", "ridge sweeps only", "curbfit fit --penalty lasso --alpha"],
+    name: "a λ grid with a lasso sweep",
+    args: [...SWEEP, "--penalty", "lasso", "--lambdas", "0.1,1"],
+    mentions: ["--lambdas", "lasso", "alphas"],
+  },
+  {
+    name: "an α grid with a ridge sweep",
+    args: [...SWEEP, "--alphas", "0.1"],
+    mentions: ["--alphas", "ridge", "lambdas"],
+  },
+  {
+    name: "α = 0 in a sweep's list",
+    args: [...SWEEP, "--penalty", "elastic-net:0.5", "--alphas", "0,0.1"],
+    mentions: ["--alphas", "> 0"],
   },
   {
     name: "λ with a lasso fit",
@@ -395,7 +410,7 @@ Deno.test("cli: compare from --candidate and from a --candidates file; fit write
   const record = parseRecord(a);
   assert.equal(record.kind, "comparison");
   assert.deepEqual(record.models.map((m) => m.name), ["straight line", "degree 6, rising"]);
-  assert.deepEqual(record.models[1].penalty.weights, "rising");
+  assert.deepEqual((record.models[1] as RidgeModelSection).penalty.weights, "rising");
   assert.equal(record.models[1].choice.rule, "one-se");
 
   const fitted = await runTask("curbfit", [
@@ -631,4 +646,68 @@ Deno.test("cli: fit --penalty lasso / elastic-net --alpha: α on the report, the
     assert.match(statement, /α = 0\.05/);
   }
   await Deno.remove(out, { recursive: true });
+});
+
+Deno.test("cli: sweep --penalty lasso --alpha-count writes an α record that verify accepts (exit 0)", async () => {
+  const out = await Deno.makeTempDir();
+  const ran = await runTask("curbfit", [
+    ...SWEEP,
+    "--term",
+    "column:shade_share",
+    "--penalty",
+    "lasso",
+    "--alpha-count",
+    "15",
+    "--folds",
+    "6",
+    "--seed",
+    "3",
+    "--out",
+    out,
+    "--quiet",
+  ]);
+  assert.equal(ran.code, 0, ran.stderr);
+  assert.match(ran.stdout, /Chosen: α = /);
+  assert.match(ran.stdout, /chosen α/);
+  const recordPath = join(out, "record.json");
+  const record = parseRecord(await Deno.readTextFile(recordPath));
+  const m = record.models[0];
+  assert.ok(isSparseModel(m));
+  assert.deepEqual(m.penalty, { kind: "lasso", mix: 1, tolerance: 1e-7 });
+  assert.deepEqual(m.grid.request, { count: 15, ratio: null });
+  const statementText = await Deno.readTextFile(join(out, "statement.md"));
+  assert.match(statementText, /1\/\(2N\)/);
+  assert.match(statementText, /coefficients nonzero/);
+  assert.match(statementText, /--alpha-count 15/, "the reproduce command keeps the α request");
+  const ok = await runTask("curbfit", ["verify", recordPath, "--data", ORCHARD]);
+  assert.equal(ok.code, 0, ok.stdout + ok.stderr);
+  await Deno.remove(out, { recursive: true });
+});
+
+Deno.test("cli: compare mixes ridge and elastic-net candidates; the reproduce command remakes the record", async () => {
+  const out = await Deno.makeTempDir();
+  const again = await Deno.makeTempDir();
+  const candidates = [
+    "--candidate",
+    "name=ridge; terms=legendre:days_since_blossom:5 + column:shade_share; lambdas=0,0.1,1,10",
+    "--candidate",
+    "name=net; terms=legendre:days_since_blossom:9 + column:shade_share; " +
+    "penalty=elastic-net:0.3; alphas=0.003,0.03,0.3; rule=one-se",
+  ];
+  const base = ["compare", "--data", ORCHARD, "--target", "brix", "--folds", "5", "--seed", "2"];
+  const ran = await runTask("curbfit", [...base, ...candidates, "--out", out, "--quiet"]);
+  assert.equal(ran.code, 0, ran.stderr);
+  assert.match(ran.stdout, /chosen λ \/ α/);
+  const json = await Deno.readTextFile(join(out, "record.json"));
+  const record = parseRecord(json);
+  assert.deepEqual(record.models.map((m) => modelStrengths(m).scale), ["lambda", "alpha"]);
+  const ok = await runTask("curbfit", ["verify", join(out, "record.json"), "--data", ORCHARD]);
+  assert.equal(ok.code, 0, ok.stdout + ok.stderr);
+  const line = rerunCommand(record, ORCHARD);
+  assert.ok(line !== null);
+  const remade = await runTask("curbfit", [...argvOf(line), "--out", again, "--quiet"]);
+  assert.equal(remade.code, 0, remade.stderr);
+  assert.equal(await Deno.readTextFile(join(again, "record.json")), json);
+  await Deno.remove(out, { recursive: true });
+  await Deno.remove(again, { recursive: true });
 });

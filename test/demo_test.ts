@@ -5,7 +5,7 @@
  */
 import assert from "node:assert/strict";
 import { join } from "node:path";
-import { parseRecord } from "../lib/record/mod.ts";
+import { parseRecord, type RidgeModelSection } from "../lib/record/mod.ts";
 import { assertInertHtml, ROOT, runTask } from "./fixtures/cli/helpers.ts";
 
 async function denoTask(args: readonly string[]) {
@@ -38,7 +38,7 @@ Deno.test("demo: deno task demo writes the report and a record that verifies", a
   assert.equal(record.data.source, "examples/data/orchard.csv");
   assert.equal(record.data.rows, 36);
   assert.deepEqual([record.folds.k, record.folds.seed], [8, 7]);
-  const [decay, low, weighted] = record.models;
+  const [decay, low, weighted] = record.models as RidgeModelSection[];
   assert.deepEqual(decay.terms.map((t) => t.label), [
     "legendre(days_since_blossom, 12)",
     "column(shade_share)",

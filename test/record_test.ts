@@ -9,9 +9,11 @@ import {
   column,
   compare,
   CurbfitError,
+  elasticNet,
   explicitPlan,
   groupedKFoldPlan,
   indicators,
+  lasso,
   legendre,
   power,
   product,
@@ -401,4 +403,169 @@ Deno.test("a record never freezes or keeps the caller's objects", () => {
   assert.equal(Object.isFrozen(grid), false);
   assert.equal(Object.isFrozen(term.spec), false);
   assert.deepEqual(grid, [0.5, 0.05, 5]);
+});
+
+// ---- lasso / elastic-net models (keys `alpha`) -------------------------------------------------
+// The numbers themselves are checked against brute force and the KKT conditions in
+// test/sparse_front_test.ts; these tests pin the record's shape, its replay and its loading.
+
+function sparseRun(): SweepResult {
+  return sweep(COLS, {
+    target: "y",
+    terms: [legendre("x", 7), column("z1")],
+    penalty: lasso(),
+    alphas: { count: 12 },
+    folds: { k: 5, seed: 17 },
+    rule: "one-se",
+  });
+}
+
+const SPARSE_TEXT = recordJson(sparseRun());
+
+/** Every numeric entry of a report matched bit for bit (no element differed at all). */
+function bitIdentical(report: VerifyReport): string[] {
+  return report.entries
+    .filter((e) => e.tolerance !== "exact" && (e.where !== null || e.expected !== e.actual))
+    .map((e) => e.field);
+}
+
+Deno.test("sparse record: α keys, penalty with tolerance, objective in the 1/(2N) convention, KKT report", () => {
+  assert.equal(recordJson(sparseRun()), SPARSE_TEXT, "byte-identical across runs");
+  const doc = editable(SPARSE_TEXT);
+  assert.equal(doc.schema, SCHEMA);
+  const m = doc.models[0];
+  assert.doesNotMatch(JSON.stringify(m), /"lambda"|"gcv"|"loo"|"closedForm"|"budget"/);
+  assert.deepEqual(Object.keys(m), [
+    "name",
+    "terms",
+    "standardize",
+    "intercept",
+    "penalty",
+    "objective",
+    "grid",
+    "cv",
+    "choice",
+    "final",
+  ]);
+  assert.deepEqual(m.penalty, { kind: "lasso", mix: 1, tolerance: 1e-7 });
+  assert.match(m.objective[0], /^minimize \(1\/\(2N\)\)/);
+  assert.deepEqual(m.grid.request, { count: 12, ratio: null });
+  assert.deepEqual(m.cv.alpha, m.grid.values);
+  // nonzero per α is the count of nonzero entries of that α's all-rows path row.
+  assert.deepEqual(
+    m.cv.nonzero,
+    m.cv.path.map((w: number[]) => w.filter((v) => v !== 0).length),
+  );
+  assert.equal(m.choice.alpha, m.grid.values[m.choice.index]);
+  const f = m.final;
+  assert.equal(f.alpha, m.choice.alpha);
+  assert.deepEqual(Object.keys(f.descent), ["passes", "converged", "violation", "gap"]);
+  assert.equal(f.descent.converged, true);
+  assert.ok(f.descent.violation <= m.penalty.tolerance);
+  assert.ok(f.descent.gap >= -1e-12, "a duality gap is not negative (up to rounding)");
+  assert.equal(f.nonzero, f.coefficients.filter((v: number) => v !== 0).length);
+  // Standardized and original coefficients: w*_q = s_q w_q (lib/record/README.md).
+  f.coefficients.forEach((w: number, q: number) => {
+    const ws = f.standardized.coefficients[q];
+    assert.ok(Math.abs(w * f.sds[q] - ws) <= 1e-12 * Math.max(1, Math.abs(ws)));
+  });
+  assert.equal(recordJson(parseRecord(SPARSE_TEXT)), SPARSE_TEXT, "parse then write: same bytes");
+});
+
+Deno.test("sparse record: verify replays it bit for bit; an edited α or coefficient fails", () => {
+  const report = verify(SPARSE_TEXT, COLS);
+  assert.equal(report.ok, true, report.text());
+  // Replays are deterministic on one curbfit and Deno version, so the solver's own tolerance
+  // (1e-7 on the scaled KKT violation) never enters: every number matches exactly.
+  assert.deepEqual(bitIdentical(report), []);
+  const doc = editable(SPARSE_TEXT);
+  doc.models[0].grid.values[3] *= 1.001;
+  assert.ok(failed(verify(JSON.stringify(doc), COLS)).includes("models[0].grid.values"));
+  const chosen = editable(SPARSE_TEXT);
+  chosen.models[0].choice.alpha *= 1.001;
+  assert.deepEqual(failed(verify(JSON.stringify(chosen), COLS)), ["models[0].choice.alpha"]);
+  const coefficient = editable(SPARSE_TEXT);
+  const w = coefficient.models[0].final.coefficients;
+  const q = w.findIndex((v: number) => v !== 0);
+  w[q] *= 1.0001;
+  assert.deepEqual(failed(verify(JSON.stringify(coefficient), COLS)), [
+    "models[0].final.coefficients",
+  ]);
+});
+
+Deno.test("sparse record: an explicit α grid reruns as listed; an edited grid α changes the CV columns", () => {
+  const s = sweep(COLS, {
+    target: "y",
+    terms: [legendre("x", 5)],
+    penalty: elasticNet({ mix: 0.4 }),
+    alphas: [0.3, 0.01, 0.1, 0.03],
+    folds: { k: 4, seed: 5 },
+  });
+  const text = recordJson(s);
+  const doc = editable(text);
+  assert.equal(doc.models[0].grid.kind, "explicit");
+  assert.deepEqual(doc.models[0].grid.values, [0.01, 0.03, 0.1, 0.3]);
+  assert.deepEqual(doc.models[0].penalty, { kind: "elastic-net", mix: 0.4, tolerance: 1e-7 });
+  assert.equal(verify(text, COLS).ok, true);
+  doc.models[0].grid.values[1] = 0.05;
+  doc.models[0].cv.alpha[1] = 0.05;
+  const fields = failed(verify(JSON.stringify(doc), COLS));
+  assert.ok(fields.includes("models[0].cv.cvMean"), fields.join(", "));
+});
+
+Deno.test("sparse record: loadRecord predicts exactly as the sweep's model, on the α scale", () => {
+  const s = sparseRun();
+  const loaded = loadRecord(SPARSE_TEXT);
+  const rows = { x: [0.05, 0.5, 0.93], z1: [0.2, -1, 1.4] };
+  assert.deepEqual(loaded.predict(rows).values, s.fit.predict(rows).values);
+  const summary = loaded.fit.summary;
+  assert.equal(summary.scale, "alpha");
+  assert.equal(summary.strength, s.chosen.strength);
+  assert.deepEqual(summary.penalty, { kind: "lasso", mix: 1 });
+  assert.equal(summary.objective, s.fit.summary.objective);
+  assert.deepEqual(summary.descent, s.fit.summary.descent);
+});
+
+Deno.test("sparse record: a comparison of ridge, lasso and elastic net verifies; each candidate on its own key", () => {
+  const c = compare(COLS, [
+    { name: "ridge", terms: [legendre("x", 6), column("z1")], lambdas: { count: 10 } },
+    {
+      name: "lasso",
+      terms: [legendre("x", 8), column("z1")],
+      penalty: lasso(),
+      alphas: { count: 10, ratio: 0.01 },
+    },
+    {
+      name: "elastic net",
+      terms: [legendre("x", 8), column("z1")],
+      penalty: elasticNet({ mix: 0.5 }),
+      alphas: [0.001, 0.01, 0.1],
+      rule: "one-se",
+    },
+  ], { target: "y", folds: { k: 5, seed: 9 } });
+  const text = recordJson(c);
+  const doc = editable(text);
+  const keys = doc.comparison.candidates.map((x: Record<string, unknown>) => Object.keys(x)[1]);
+  assert.deepEqual(keys, ["lambda", "alpha", "alpha"]);
+  assert.match(doc.comparison.criterion, /λ for ridge, α for lasso/);
+  assert.deepEqual(doc.models[1].grid.request, { count: 10, ratio: 0.01 });
+  const report = verify(text, COLS);
+  assert.equal(report.ok, true, report.text());
+  assert.deepEqual(bitIdentical(report), []);
+  const loaded = loadRecord(text);
+  assert.deepEqual(loaded.models.map((m) => m.fit.summary.scale), ["lambda", "alpha", "alpha"]);
+  const edited = editable(text);
+  edited.comparison.candidates[1].alpha *= 1.01;
+  assert.deepEqual(failed(verify(JSON.stringify(edited), COLS)), [
+    "comparison.candidates[1].alpha",
+  ]);
+  const swapped = editable(text);
+  swapped.comparison.candidates[1].lambda = swapped.comparison.candidates[1].alpha;
+  delete swapped.comparison.candidates[1].alpha;
+  assert.throws(
+    () => parseRecord(JSON.stringify(swapped)),
+    (e: unknown) =>
+      e instanceof CurbfitError && e.code === "BAD_RECORD" &&
+      e.place.option === "record.comparison.candidates[1]",
+  );
 });

@@ -22,7 +22,6 @@ import {
   foldRowsOf,
   lasso,
   legendre,
-  recordOf,
   ridge,
   sweep,
   sweepAsync,
@@ -278,20 +277,6 @@ Deno.test("charts of a sparse sweep: α on the axes, nonzero counts on top, entr
   const shown = (await (s.fit as unknown as Record<symbol, () => Promise<Record<string, string>>>)
     [Symbol.for("Jupyter.display")]())["text/plain"];
   assert.match(shown, /Objective: minimize \(1\/\(2N\)\)/);
-});
-
-Deno.test("records hold ridge sweeps only for now: a sparse sweep gets a clear error", () => {
-  const s = sweep(COLS, {
-    target: "y",
-    terms: TERMS,
-    penalty: lasso(),
-    folds: { k: 3, seed: 1 },
-    alphas: { count: 5 },
-  });
-  assert.throws(
-    () => recordOf(s),
-    (e: unknown) => e instanceof CurbfitError && /ridge sweeps only/.test(e.message),
-  );
 });
 
 Deno.test("fitted curve of a one-input lasso sweep: curves at three α, each an all-rows sparse fit", async () => {

@@ -14,14 +14,16 @@ import {
   compare,
   type ComparisonResult,
   CurbfitError,
+  elasticNet,
   indicators,
+  lasso,
   legendre,
   ridge,
   sweep,
   type SweepResult,
   tableFromColumns,
 } from "../mod.ts";
-import { recordJson, recordOf } from "../lib/record/mod.ts";
+import { modelStrengths, recordJson, recordOf } from "../lib/record/mod.ts";
 import { evidenceSpec, statement } from "../lib/statement/mod.ts";
 import { renderMarkdown } from "../lib/statement/markdown.ts";
 import { escapeHtml } from "../lib/views/escape.ts";
@@ -114,7 +116,7 @@ Deno.test("statement: numbers are the record's", () => {
   record.models.forEach((m, i) => {
     const row = table.table.rows[i];
     assert.equal(row[0], m.name);
-    assert.equal(row[1], m.choice.lambda);
+    assert.equal(row[1], modelStrengths(m).chosen);
     assert.equal(row[2], m.cv.cvMean[m.choice.index]);
     assert.equal(row[3], m.cv.cvSe[m.choice.index]);
     const vs = record.comparison!.candidates[i].versusBest;
@@ -237,4 +239,48 @@ Deno.test("statement tests' own checks catch active HTML and raw Markdown", () =
   );
   assert.deepEqual(rawMarkdownMarkup("a \\<b\\> `<c>` **d**\n\n```\n<e>\n```\n| f | g |\n"), []);
   assert.deepEqual(rawMarkdownMarkup("a <b> [c](d) *e*"), ["<", ">", "[", "]", "*", "*"]);
+});
+
+Deno.test("statement of lasso / elastic-net records: α labels, the 1/(2N) objective, nonzero counts, KKT report", async () => {
+  const x = Array.from({ length: 50 }, (_, i) => i / 49);
+  const data = { x, y: x.map((v, i) => Math.sin(3 * v) + 0.05 * Math.cos(7 * i)) };
+  const s = sweep(data, {
+    target: "y",
+    terms: [legendre("x", 8)],
+    penalty: lasso(),
+    alphas: { count: 20 },
+    folds: { k: 5, seed: 4 },
+  });
+  const st = statement(recordJson(s));
+  const md = st.markdown();
+  const text = st.text();
+  for (const shown of [md, text]) {
+    assert.match(shown, /α tried/);
+    assert.match(shown, /chosen α/);
+    assert.match(shown, /nonzero/);
+    assert.match(shown, /minimize \(1\/\(2N\)\)/);
+    assert.match(shown, /scaled KKT violation/);
+    assert.match(shown, /duality gap/);
+    assert.match(shown, /--penalty lasso/);
+    assert.doesNotMatch(shown, /λ = \d|chosen λ|λ tried|budget C/);
+  }
+  const nonzero = s.fit.summary.nonzero;
+  assert.match(md, new RegExp(`${nonzero} of 8 coefficients nonzero`));
+  const html = await st.html();
+  assert.match(html, /<svg/);
+  await assertValidVegaLite(st.chart());
+  const c = compare(data, [
+    { name: "ridge", terms: [legendre("x", 6)], lambdas: [0.01, 0.1, 1] },
+    {
+      name: "net",
+      terms: [legendre("x", 8)],
+      penalty: elasticNet({ mix: 0.3 }),
+      alphas: [0.001, 0.01],
+    },
+  ], { target: "y", folds: { k: 5, seed: 4 } });
+  const mixed = statement(recordJson(c)).markdown();
+  assert.match(mixed, /λ or α tried/);
+  assert.match(mixed, /chosen λ \/ α/);
+  assert.match(mixed, /elastic net, L1 share ρ = 0\.3/);
+  await assertValidVegaLite(statement(c).chart());
 });

@@ -73,7 +73,8 @@ const term: OptionSpec = {
 const penalty: OptionSpec = {
   name: "penalty",
   value: "PENALTY",
-  help: "ridge (γ = 1, default), ridge:rising[:E], ridge:falling[:E] or ridge:W1,W2,…",
+  help: "ridge (γ = 1, default), ridge:rising[:E], ridge:falling[:E], ridge:W1,W2,…, " +
+    "lasso, or elastic-net[:MIX] (L1 share, default 0.5; swept over α, --alphas)",
 };
 const fitPenalty: OptionSpec = {
   name: "penalty",
@@ -102,20 +103,41 @@ const gridOptions: readonly OptionSpec[] = [
   },
   { name: "lambda-min", value: "X", help: "smallest λ of the automatic grid (> 0)" },
   { name: "lambda-max", value: "X", help: "largest λ of the automatic grid" },
+  {
+    name: "alphas",
+    value: "LIST",
+    help: "lasso / elastic net: α values to try (> 0, 1/(2N) convention), comma-separated",
+  },
+  {
+    name: "alpha-count",
+    value: "N",
+    help: "lasso / elastic net: values of the automatic α path from α_max down (default 100)",
+  },
+  {
+    name: "alpha-ratio",
+    value: "X",
+    help: "lasso / elastic net: smallest α of the path as a share of α_max (default 0.001, " +
+      "or 0.01 when columns outnumber rows)",
+  },
+  {
+    name: "tolerance",
+    value: "X",
+    help: "lasso / elastic net: largest scaled KKT violation the solver accepts (default 1e-7)",
+  },
 ];
 const selection: readonly OptionSpec[] = [
   {
     name: "rule",
     value: "RULE",
     choices: ["min", "one-se"],
-    help: "pick the λ with the smallest CV error (min, default) or the largest λ within one " +
-      "standard error of it (one-se)",
+    help: "pick the λ (or α) with the smallest CV error (min, default) or the largest one " +
+      "within one standard error of it (one-se)",
   },
   {
     name: "closed-form",
     value: "WHEN",
     choices: ["auto", "yes", "no"],
-    help: "also compute closed-form leave-one-out errors (auto: up to 100 000 rows)",
+    help: "ridge: also compute closed-form leave-one-out errors (auto: up to 100 000 rows)",
   },
 ];
 const foldOptions: readonly OptionSpec[] = [
@@ -158,7 +180,8 @@ const quiet: OptionSpec = { name: "quiet", help: "no progress lines on stderr" }
 export const COMMANDS: readonly CommandSpec[] = [
   {
     name: "sweep",
-    summary: "choose λ for one model by seeded cross-validation; write the report and record",
+    summary: "choose λ (ridge) or α (lasso / elastic net) for one model by seeded " +
+      "cross-validation; write the report and record",
     options: [
       data,
       target,
@@ -195,7 +218,11 @@ export const COMMANDS: readonly CommandSpec[] = [
         help: "a text file with one candidate per line (# starts a comment)",
       },
       { ...term, help: "a term every candidate without terms=… uses" },
-      { ...penalty, help: "the penalty of candidates without penalty=… (default ridge)" },
+      {
+        ...penalty,
+        help: "the penalty of candidates without penalty=… (default ridge; lasso, " +
+          "elastic-net[:MIX])",
+      },
       scale,
       intercept,
       ...gridOptions,

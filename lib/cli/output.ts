@@ -5,7 +5,8 @@
  * @module
  */
 import { join } from "node:path";
-import type { ModelChoiceRecord } from "../record/mod.ts";
+import { type ModelChoiceRecord, modelStrengths } from "../record/mod.ts";
+import { strengthSymbol } from "../fit/penalty.ts";
 import { statement } from "../statement/mod.ts";
 import { describeFolds, standingTable } from "../statement/sections.ts";
 import { showControls } from "../views/escape.ts";
@@ -106,10 +107,11 @@ export function choiceSummary(record: ModelChoiceRecord, command: string): strin
   const best = record.comparison?.best;
   const model = record.models.find((m) => best === undefined || m.name === best) ??
     record.models[0];
-  const lambda = formatNumber(model.choice.lambda, 4);
+  const st = modelStrengths(model);
+  const at = `${strengthSymbol(st.scale)} = ${formatNumber(st.chosen, 4)}`;
   const chosen = best === undefined
-    ? `Chosen: λ = ${lambda} (${model.choice.rule} rule).`
-    : `Chosen: ${best} at λ = ${lambda} (lowest mean CV error at its chosen λ).`;
+    ? `Chosen: ${at} (${model.choice.rule} rule).`
+    : `Chosen: ${best} at ${at} (lowest mean CV error at its chosen ${strengthSymbol(st.scale)}).`;
   return [
     showControls(
       `curbfit ${command}: ${record.target} from ${record.data.source}, ${record.data.rows} ` +

@@ -5,7 +5,13 @@
  *
  * @module
  */
-import type { FoldsSection, ModelChoiceRecord, ModelSection } from "../record/mod.ts";
+import {
+  type FoldsSection,
+  isSparseModel,
+  type ModelChoiceRecord,
+  type ModelSection,
+} from "../record/mod.ts";
+import { DEFAULT_TOLERANCE } from "../sparse/mod.ts";
 import { CLOSED_FORM_DEFAULT_ROWS } from "../sweep/sweep.ts";
 import { type CandidateKey, formatCandidate, formatPenalty, formatTerm } from "./syntax.ts";
 
@@ -41,6 +47,21 @@ function modelSettings(m: ModelSection, rows: number): [CandidateKey, string][] 
   for (const t of m.terms) out.push(["terms", formatTerm(t.spec)]);
   const penalty = formatPenalty(m.penalty);
   if (penalty !== "ridge") out.push(["penalty", penalty]);
+  if (isSparseModel(m)) {
+    if (m.grid.kind === "explicit") out.push(["alphas", m.grid.values.join(",")]);
+    else {
+      const r = m.grid.request;
+      if (r?.count != null) out.push(["alpha-count", String(r.count)]);
+      if (r?.ratio != null) out.push(["alpha-ratio", String(r.ratio)]);
+    }
+    if (m.penalty.tolerance !== DEFAULT_TOLERANCE) {
+      out.push(["tolerance", String(m.penalty.tolerance)]);
+    }
+    out.push(["rule", m.choice.rule]);
+    if (!m.standardize) out.push(["scale", "raw"]);
+    if (!m.intercept) out.push(["intercept", "no"]);
+    return out;
+  }
   if (m.grid.kind === "explicit") out.push(["lambdas", m.grid.values.join(",")]);
   else {
     const r = m.grid.request;

@@ -162,10 +162,16 @@ const FLAG_OF: Readonly<Record<string, string>> = {
   "lambdas.count": "--lambda-count",
   "lambdas.min": "--lambda-min",
   "lambdas.max": "--lambda-max",
+  alphas: "--alphas",
+  "alphas.count": "--alpha-count",
+  "alphas.ratio": "--alpha-ratio",
+  tolerance: "--tolerance",
+  closedForm: "--closed-form",
 };
 
 function flagOf(option: string): string | undefined {
   if (option.startsWith("lambdas[")) return "--lambdas";
+  if (option.startsWith("alphas[")) return "--alphas";
   if (option.startsWith("penalty")) return "--penalty";
   if (option.startsWith("terms")) return "--term";
   return FLAG_OF[option];

@@ -9,6 +9,7 @@
 import type { LoadOptions } from "../table/mod.ts";
 import type { Term } from "../design/types.ts";
 import { isSparse, type Penalty } from "../fit/penalty.ts";
+import type { AlphaGrid } from "../sparse/mod.ts";
 import type { FitSpec } from "../fit/fit.ts";
 import type { SweepSpec } from "../sweep/sweep.ts";
 import type { Candidate } from "../sweep/compare.ts";
@@ -18,6 +19,7 @@ import type { SelectionRule } from "../sweep/select.ts";
 import { hasOption, optionValue, optionValues, type ParsedArgs } from "./args.ts";
 import {
   type CandidateKey,
+  parseAlphas,
   parseCandidate,
   parseLambdas,
   parseNumber,
@@ -75,6 +77,8 @@ interface ModelSettings {
   readonly standardize?: boolean;
   readonly intercept?: boolean;
   readonly lambdas?: LambdaGrid;
+  readonly alphas?: AlphaGrid;
+  readonly tolerance?: number;
   readonly rule?: SelectionRule;
   readonly closedForm?: boolean | "auto";
 }
@@ -102,12 +106,15 @@ function modelSettings(
   const intercept = choice("intercept", ["yes", "no"] as const);
   const closed = choice("closed-form", ["auto", "yes", "no"] as const);
   const rule = choice("rule", ["min", "one-se"] as const);
+  const tolerance = text("tolerance");
   return {
     ...(terms !== undefined ? { terms } : {}),
     ...(penalty !== undefined ? { penalty: parsePenalty(penalty, label("penalty")) } : {}),
     ...(scale !== undefined ? { standardize: scale === "standardized" } : {}),
     ...(intercept !== undefined ? { intercept: intercept === "yes" } : {}),
     ...lambdaSettings(lookup, label),
+    ...alphaSettings(lookup, label),
+    ...(tolerance !== undefined ? { tolerance: parseNumber(tolerance, label("tolerance")) } : {}),
     ...(rule !== undefined ? { rule } : {}),
     ...(closed !== undefined ? { closedForm: closed === "auto" ? "auto" : closed === "yes" } : {}),
   };
@@ -143,20 +150,81 @@ function lambdaSettings(
   };
 }
 
+function alphaSettings(
+  lookup: Lookup,
+  label: (key: CandidateKey) => string,
+): { alphas?: AlphaGrid } {
+  const list = lookup("alphas");
+  const count = lookup("alpha-count");
+  const ratio = lookup("alpha-ratio");
+  const automatic = count !== undefined || ratio !== undefined;
+  if (list !== undefined && automatic) {
+    throw usageError(
+      label("alphas"),
+      `${label("alphas")} lists the α values, so ${label("alpha-count")} and ` +
+        `${label("alpha-ratio")} cannot be given with it`,
+      "Give either a list of α values or the automatic path's count and ratio",
+    );
+  }
+  if (list !== undefined) return { alphas: parseAlphas(list, label("alphas")) };
+  if (!automatic) return {};
+  return {
+    alphas: {
+      ...(count !== undefined ? { count: parseWhole(count, label("alpha-count")) } : {}),
+      ...(ratio !== undefined ? { ratio: parseNumber(ratio, label("alpha-ratio")) } : {}),
+    },
+  };
+}
+
+/** Settings of the ridge λ scale (`lambdas`, `lambda-…`, `closed-form`). */
+const RIDGE_ONLY = ["lambdas", "closedForm"] as const;
+/** Settings of the sparse α scale (`alphas`, `alpha-…`, `tolerance`). */
+const SPARSE_ONLY = ["alphas", "tolerance"] as const;
+
+/** The keys (for messages) of each scale-specific setting. */
+const KEYS_OF: Readonly<Record<string, CandidateKey>> = {
+  lambdas: "lambdas",
+  closedForm: "closed-form",
+  alphas: "alphas",
+  tolerance: "tolerance",
+};
+
+/** What to do instead of a setting of the other scale. */
+const FOREIGN_HINT: Readonly<Record<string, string>> = {
+  lambdas: "Give the α grid with alphas, alpha-count or alpha-ratio (1/(2N) convention)",
+  closedForm: "Leave closed-form out: closed-form leave-one-out is a ridge identity",
+  alphas: "Give the λ grid with lambdas, lambda-count, lambda-min or lambda-max, or set the " +
+    "penalty to lasso or elastic-net[:MIX]",
+  tolerance: "Leave tolerance out for ridge (its solver is direct), or set the penalty to " +
+    "lasso or elastic-net[:MIX]",
+};
+
 /**
- * Settings whose sweep can be written as a model-choice record: `sweep` and `compare` always write
- * one, and records hold ridge sweeps only in this version, so a lasso / elastic-net penalty is
- * refused before any work (fit takes them).
+ * One model's settings with its penalty's scale checked: λ settings (and closed-form
+ * leave-one-out) belong to ridge, α settings (and the solver tolerance) to lasso / elastic net.
+ * The model's own settings of the other scale are a usage error; shared settings (the options
+ * of `compare`) of the other scale are left out, since they are for the other candidates.
  */
-function recordable(settings: ModelSettings, where: string): ModelSettings {
-  if (settings.penalty === undefined || !isSparse(settings.penalty)) return settings;
-  throw usageError(
-    where,
-    `${where} is ${settings.penalty.kind}, but sweep and compare write a model-choice record, ` +
-      "and records hold ridge sweeps only in this version",
-    `Use "curbfit fit --penalty ${settings.penalty.kind} --alpha A" for one sparse model, or ` +
-      "sweep a sparse penalty with the API or the curb template",
-  );
+function scaleChecked(
+  own: ModelSettings,
+  shared: ModelSettings,
+  label: (key: CandidateKey) => string,
+): ModelSettings {
+  const penalty = own.penalty ?? shared.penalty;
+  const sparse = penalty !== undefined && isSparse(penalty);
+  const foreign = sparse ? RIDGE_ONLY : SPARSE_ONLY;
+  for (const key of foreign) {
+    if (own[key] === undefined) continue;
+    throw usageError(
+      label(KEYS_OF[key]),
+      `${label(KEYS_OF[key])} was given for a ${sparse ? (penalty as Penalty).kind : "ridge"} ` +
+        `model, but it belongs to ${sparse ? "ridge (λ)" : "lasso and elastic net (α)"}`,
+      FOREIGN_HINT[key],
+    );
+  }
+  const merged: Record<string, unknown> = { ...shared, ...own };
+  for (const key of foreign) delete merged[key];
+  return merged as ModelSettings;
 }
 
 /** The options' own settings (`--penalty`, `--lambdas`, …). */
@@ -230,7 +298,7 @@ function requireTerms(
  * ```
  */
 export function sweepSpec(parsed: ParsedArgs): SweepSpec {
-  const settings = recordable(optionSettings(parsed), "--penalty");
+  const settings = scaleChecked(optionSettings(parsed), {}, (key) => `--${key}`);
   return {
     ...settings,
     target: targetOf(parsed),
@@ -327,7 +395,7 @@ export function compareCandidates(
   parsed: ParsedArgs,
   fileLines: readonly { readonly text: string; readonly where: string }[],
 ): Candidate[] {
-  const shared = recordable(optionSettings(parsed), "--penalty");
+  const shared = optionSettings(parsed);
   const texts = [
     ...optionValues(parsed, "candidate").map((text, i) => ({
       text,
@@ -339,16 +407,13 @@ export function compareCandidates(
     const settings = parseCandidate(text, where);
     const termsText = settings.get("terms");
     const terms = termsText === undefined ? shared.terms : parseTermList(termsText, where);
-    const own = recordable(
-      modelSettings(
-        (key) => settings.get(key),
-        (key) => `${key}= in ${where}`,
-        terms,
-      ),
-      `penalty= in ${where}`,
+    const label = (key: CandidateKey) => `${key}= in ${where}`;
+    const own = scaleChecked(
+      modelSettings((key) => settings.get(key), label, terms),
+      shared,
+      label,
     );
     return {
-      ...shared,
       ...own,
       name: settings.get("name") as string,
       terms: requireTerms(

@@ -17,13 +17,14 @@
  * double quotes, with `""` for a quote inside: `column:"rate: mm/h"`.
  *
  * Penalties: `ridge` (γ = 1), `ridge:rising[:EXPONENT]`, `ridge:falling[:EXPONENT]`,
- * `ridge:W1,W2,…` (one γ per design column).
+ * `ridge:W1,W2,…` (one γ per design column), `lasso`, `elastic-net[:MIX]` (MIX the L1 share ρ;
+ * their strength is α in the 1/(2N) convention).
  *
  * Candidates (`--candidate`, or one per line of a `--candidates` file): `key=value` pairs
  * separated by `;`, e.g. `name=degree 2; terms=legendre:x:2 + column:z; lambdas=0`. Keys are the
  * option names without dashes: `name` (required), `terms` (terms joined by `+`), `penalty`,
- * `lambdas`, `lambda-count`, `lambda-min`, `lambda-max`, `rule`, `scale`, `intercept`,
- * `closed-form`.
+ * `lambdas`, `lambda-count`, `lambda-min`, `lambda-max`, `alphas`, `alpha-count`, `alpha-ratio`,
+ * `tolerance`, `rule`, `scale`, `intercept`, `closed-form`.
  *
  * @module
  */
@@ -210,6 +211,29 @@ export function parseLambdas(text: string, option: string): number[] {
         option,
         `${option} holds ${item.trim()}, but every λ must be a number >= 0`,
         "Remove negative values; λ = 0 means no penalty",
+      );
+    }
+    return value;
+  });
+}
+
+/**
+ * A comma-separated list of α values, each a decimal number > 0.
+ *
+ * @example
+ * ```ts
+ * import { parseAlphas } from "./syntax.ts";
+ * console.log(parseAlphas("0.001, 0.01", "--alphas")); // [ 0.001, 0.01 ]
+ * ```
+ */
+export function parseAlphas(text: string, option: string): number[] {
+  return text.split(",").map((item) => {
+    const value = parseNumber(item, option);
+    if (!(value > 0)) {
+      throw usageError(
+        option,
+        `${option} holds ${item.trim()}, but every α must be a number > 0`,
+        "Remove zero and negative values; for an unpenalized model use lambdas=0 with ridge",
       );
     }
     return value;
@@ -423,7 +447,8 @@ export function parsePenalty(text: string, option: string): Penalty {
 }
 
 /**
- * A penalty written in the command-line syntax.
+ * A penalty written in the command-line syntax (ridge weights, or a sparse penalty's kind and
+ * L1 share).
  *
  * @example
  * ```ts
@@ -432,8 +457,13 @@ export function parsePenalty(text: string, option: string): Penalty {
  * ```
  */
 export function formatPenalty(
-  penalty: { readonly weights: RidgePenalty["weights"]; readonly exponent: number },
+  penalty:
+    | { readonly weights: RidgePenalty["weights"]; readonly exponent: number }
+    | { readonly kind: "lasso" | "elastic-net"; readonly mix: number },
 ): string {
+  if ("mix" in penalty) {
+    return penalty.kind === "lasso" ? "lasso" : `elastic-net:${penalty.mix}`;
+  }
   const { weights, exponent } = penalty;
   if (typeof weights !== "string") return `ridge:${weights.join(",")}`;
   if (weights === "equal") return "ridge";
@@ -457,6 +487,10 @@ export const CANDIDATE_KEYS = [
   "lambda-count",
   "lambda-min",
   "lambda-max",
+  "alphas",
+  "alpha-count",
+  "alpha-ratio",
+  "tolerance",
   "rule",
   "scale",
   "intercept",

@@ -5,7 +5,8 @@
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
-import { isSparse, type RidgePenalty } from "../fit/penalty.ts";
+import type { SparsePenalty } from "../sparse/mod.ts";
+import { isSparse } from "../fit/penalty.ts";
 import { deepFreeze } from "../common/freeze.ts";
 import type { Json } from "../design/types.ts";
 import { assignmentDigest, type FoldPlan } from "../folds/mod.ts";
@@ -21,8 +22,10 @@ import {
   type GridSection,
   type ModelChoiceRecord,
   type ModelSection,
+  type RidgeModelSection,
   SCHEMA,
   type SoftwareSection,
+  type SparseModelSection,
 } from "./schema.ts";
 import {
   CAUTIONS,
@@ -30,6 +33,9 @@ import {
   CV_DEFINITIONS,
   objectiveLines,
   ruleDefinition,
+  SPARSE_COMPARISON_CRITERION,
+  SPARSE_CV_DEFINITIONS,
+  sparseObjectiveLines,
 } from "./texts.ts";
 import config from "../../deno.json" with { type: "json" };
 import { recordBundle, withDisplay } from "../views/display.ts";
@@ -49,11 +55,12 @@ export interface RecordOptions {
  * ```ts
  * import { legendre, sweep } from "../../mod.ts";
  * import { recordOf } from "./build.ts";
+ * import { modelStrengths } from "./schema.ts";
  * const x = Array.from({ length: 30 }, (_, i) => i / 29);
  * const y = x.map((v, i) => Math.sin(3 * v) + 0.05 * Math.cos(7 * i));
  * const s = sweep({ x, y }, { target: "y", terms: [legendre("x", 6)], folds: { k: 5, seed: 4 } });
  * const record = recordOf(s);
- * console.log(record.schema, record.folds.seed, record.models[0].choice.lambda === s.chosen.strength);
+ * console.log(record.schema, record.folds.seed, modelStrengths(record.models[0]).chosen === s.chosen.strength);
  * ```
  */
 export function recordOf(
@@ -187,16 +194,11 @@ export function foldsSection(
  * ```
  */
 export function modelSection(s: SweepResult, name: string | null): ModelSection {
-  const penalty = ridgePenaltyOf(s, name);
+  const penalty = s.fit.summary.penalty;
+  if (isSparse(penalty)) return sparseModelSection(s, name, penalty);
   return {
     name,
-    terms: s.fit.terms.map((t) => ({
-      label: t.term.label,
-      spec: copyJson(t.term.spec),
-      params: copyJson(t.params),
-      outputs: [...t.names],
-      orders: [...t.orders],
-    })),
+    terms: termSections(s),
     standardize: s.standardize,
     intercept: s.intercept,
     penalty: {
@@ -218,24 +220,98 @@ export function modelSection(s: SweepResult, name: string | null): ModelSection 
       notes: [...s.notes],
     },
     final: finalSection(s),
-  };
+  } satisfies RidgeModelSection;
 }
 
-/**
- * The ridge penalty of a swept model. Records (schema curbfit.model-choice/1) hold ridge sweeps
- * only: a lasso / elastic-net sweep gets a clear error instead of a record that would misstate it.
- */
-function ridgePenaltyOf(s: SweepResult, name: string | null): RidgePenalty {
-  const penalty = s.fit.summary.penalty;
-  if (!isSparse(penalty)) return penalty;
-  throw new CurbfitError(
-    "BAD_OPTION",
-    `${name === null ? "the sweep" : `candidate ${name}`} uses a ${penalty.kind} penalty, and ` +
-      "model-choice records hold ridge sweeps only for now",
-    "Keep the sweep result itself (its curve, chosen α and fit) as the evidence, or record a " +
-      "ridge sweep",
-    { option: "penalty" },
-  );
+function termSections(s: SweepResult): ModelSection["terms"] {
+  return s.fit.terms.map((t) => ({
+    label: t.term.label,
+    spec: copyJson(t.term.spec),
+    params: copyJson(t.params),
+    outputs: [...t.names],
+    orders: [...t.orders],
+  }));
+}
+
+/** The section of a lasso / elastic-net sweep: keys `alpha`, no ridge-only columns. */
+function sparseModelSection(
+  s: SweepResult,
+  name: string | null,
+  penalty: SparsePenalty,
+): SparseModelSection {
+  const f = s.fit.summary;
+  const descent = f.descent;
+  if (descent === null) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `${name === null ? "the sweep" : `candidate ${name}`} has a ${penalty.kind} penalty but ` +
+        "no coordinate-descent report",
+      "Record the result of sweep or compare as it was returned",
+      { option: "penalty" },
+    );
+  }
+  const request = s.provenance.alphas;
+  const column = (pick: (c: SweepResult["curve"][number]) => number) => s.curve.map(pick);
+  return {
+    name,
+    terms: termSections(s),
+    standardize: s.standardize,
+    intercept: s.intercept,
+    penalty: { kind: penalty.kind, mix: penalty.mix, tolerance: descent.tolerance },
+    objective: sparseObjectiveLines(penalty, s.standardize, s.intercept),
+    grid: {
+      kind: Array.isArray(request) ? "explicit" : "automatic",
+      request: Array.isArray(request) ? null : {
+        count: (request as { count?: number } | null)?.count ?? null,
+        ratio: (request as { ratio?: number } | null)?.ratio ?? null,
+      },
+      values: column((c) => c.strength),
+    },
+    cv: {
+      definitions: [...SPARSE_CV_DEFINITIONS],
+      alpha: column((c) => c.strength),
+      cvMean: column((c) => c.cvMean),
+      cvSe: column((c) => c.cvSe),
+      trainMse: column((c) => c.trainMse),
+      foldTrainMse: column((c) => c.foldTrainMse),
+      nonzero: column((c) => c.nonzero),
+      penaltyValue: column((c) => c.budget),
+      foldMse: s.curve.map((c) => [...c.foldMse]),
+      path: s.curve.map((c) => [...c.path]),
+    },
+    choice: {
+      rule: s.chosen.rule,
+      definition: ruleDefinition(s.chosen.rule, "alpha"),
+      index: s.chosen.index,
+      alpha: s.chosen.strength,
+      minimum: { index: s.minimum.index, alpha: s.minimum.strength },
+      notes: [...s.notes],
+    },
+    final: {
+      n: f.n,
+      alpha: f.strength,
+      penaltyValue: f.budget,
+      nonzero: f.nonzero,
+      names: [...f.names],
+      intercept: f.intercept,
+      coefficients: [...f.coefficients],
+      standardized: {
+        intercept: f.standardized.intercept,
+        coefficients: [...f.standardized.coefficients],
+      },
+      means: [...f.means],
+      sds: [...f.sds],
+      trainMse: f.trainMse,
+      residualSd: f.residualSd,
+      condition: f.condition,
+      descent: {
+        passes: descent.passes,
+        converged: descent.converged,
+        violation: descent.violation,
+        gap: descent.gap,
+      },
+    },
+  };
 }
 
 function gridSection(s: SweepResult): GridSection {
@@ -261,7 +337,7 @@ function cvSection(s: SweepResult): CvSection {
     foldTrainMse: column((c) => c.foldTrainMse),
     df: column((c) => c.df),
     budget: column((c) => c.budget),
-    gcv: column((c) => c.gcv as number), /* ridge records only: always a number */
+    gcv: column((c) => c.gcv as number), /* ridge sweeps: always a number */
     loo: s.curve[0].loo === null ? null : column((c) => c.loo as number),
     foldMse: s.curve.map((c) => [...c.foldMse]),
     path: s.curve.map((c) => [...c.path]),
@@ -308,12 +384,13 @@ function finalSection(s: SweepResult): FinalSection {
  * ```
  */
 export function comparisonSection(c: ComparisonResult): ComparisonSection {
+  const sparse = c.candidates.some((o) => o.sweep.scale === "alpha");
   return {
     best: c.best,
-    criterion: COMPARISON_CRITERION,
+    criterion: sparse ? SPARSE_COMPARISON_CRITERION : COMPARISON_CRITERION,
     candidates: c.candidates.map((o) => ({
       name: o.name,
-      lambda: o.strength,
+      ...(o.sweep.scale === "alpha" ? { alpha: o.strength } : { lambda: o.strength }),
       cvMean: o.cvMean,
       cvSe: o.cvSe,
       versusBest: o.versusBest === null ? null : {

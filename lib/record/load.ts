@@ -21,7 +21,13 @@ import { objectiveText, ridge } from "../fit/penalty.ts";
 import type { ColumnSummary } from "./fingerprint.ts";
 import { canonicalJson } from "./json.ts";
 import { parseRecord } from "./parse.ts";
-import type { ModelChoiceRecord, ModelSection } from "./schema.ts";
+import {
+  isSparseModel,
+  type ModelChoiceRecord,
+  type ModelSection,
+  type SparseModelSection,
+} from "./schema.ts";
+import { elasticNet, lasso } from "../sparse/mod.ts";
 
 /**
  * One loaded model.
@@ -113,24 +119,14 @@ function modelFit(
   path: string,
 ): Fit {
   const terms = rebuildTerms(m, witness, path);
-  const penalty = asRecordError(
-    `${path}.penalty`,
-    () => ridge({ weights: m.penalty.weights, exponent: m.penalty.exponent }),
-  );
   const f = m.final;
-  const summary: FitSummary = deepFreeze({
+  const common = {
     target: record.target,
     n: f.n,
     names: [...f.names],
     orders: m.terms.flatMap((t) => t.orders),
-    penalty,
-    scale: "lambda",
-    objective: objectiveText(penalty),
-    gamma: [...m.penalty.gamma],
-    strength: f.lambda,
-    budget: f.budget,
-    df: f.df,
-    nonzero: f.coefficients.filter((v) => v !== 0).length,
+  };
+  const scaled = {
     intercept: f.intercept,
     coefficients: [...f.coefficients],
     standardized: {
@@ -144,11 +140,69 @@ function modelFit(
     trainMse: f.trainMse,
     residualSd: f.residualSd,
     condition: f.condition,
-    refinementSteps: f.refinementSteps,
-    descent: null,
-  });
+  };
+  const summary: FitSummary = deepFreeze(
+    isSparseModel(m) ? sparseSummary(m, path, common, scaled) : {
+      ...common,
+      penalty: asRecordError(
+        `${path}.penalty`,
+        () => ridge({ weights: m.penalty.weights, exponent: m.penalty.exponent }),
+      ),
+      scale: "lambda",
+      objective: objectiveText(ridge()),
+      gamma: [...m.penalty.gamma],
+      strength: m.final.lambda,
+      budget: m.final.budget,
+      df: m.final.df,
+      nonzero: f.coefficients.filter((v) => v !== 0).length,
+      ...scaled,
+      refinementSteps: m.final.refinementSteps,
+      descent: null,
+    },
+  );
   return new Fit(summary, terms);
 }
+
+/** The summary fields of a recorded lasso / elastic-net model. */
+function sparseSummary(
+  m: SparseModelSection,
+  path: string,
+  common: Pick<FitSummary, "target" | "n" | "names" | "orders">,
+  scaled: Omit<FitSummary, SummaryOwn | "target" | "n" | "names" | "orders">,
+): FitSummary {
+  const penalty = asRecordError(
+    `${path}.penalty`,
+    () => (m.penalty.kind === "lasso" ? lasso() : elasticNet({ mix: m.penalty.mix })),
+  );
+  const f = m.final;
+  return {
+    ...common,
+    penalty,
+    scale: "alpha",
+    objective: objectiveText(penalty),
+    gamma: f.names.map(() => 1),
+    strength: f.alpha,
+    budget: f.penaltyValue,
+    df: f.nonzero,
+    nonzero: f.nonzero,
+    ...scaled,
+    refinementSteps: 0,
+    descent: { ...f.descent, tolerance: m.penalty.tolerance },
+  };
+}
+
+/** Summary fields that differ between ridge and sparse models. */
+type SummaryOwn =
+  | "penalty"
+  | "scale"
+  | "objective"
+  | "gamma"
+  | "strength"
+  | "budget"
+  | "df"
+  | "nonzero"
+  | "refinementSteps"
+  | "descent";
 
 /** Learned terms rebuilt on the witness table and checked against the record. */
 function rebuildTerms(m: ModelSection, witness: Table, path: string): readonly LearnedTerm[] {

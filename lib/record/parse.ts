@@ -20,13 +20,16 @@ import {
   type FinalSection,
   type FoldsSection,
   type GridSection,
+  isSparseModel,
   type ModelChoiceRecord,
   type ModelSection,
   type PenaltySection,
+  type RidgeModelSection,
   SCHEMA,
   SCHEMA_NAME,
   SCHEMA_VERSION,
   type SoftwareSection,
+  type SparseModelSection,
   type TermSection,
 } from "./schema.ts";
 
@@ -216,7 +219,17 @@ function folds(v: unknown, path: string): FoldsSection {
   };
 }
 
+const SPARSE_KINDS = ["lasso", "elastic-net"] as const;
+
+/** A model section: lasso / elastic net when its penalty says so (keys `alpha`), else ridge. */
 function model(v: unknown, path: string): ModelSection {
+  const kind = isObject(v) && isObject(v.penalty) ? v.penalty.kind : undefined;
+  return (SPARSE_KINDS as readonly unknown[]).includes(kind)
+    ? sparseModel(v, path)
+    : ridgeModel(v, path);
+}
+
+function ridgeModel(v: unknown, path: string): RidgeModelSection {
   const o = fields(v, path, [
     "name",
     "terms",
@@ -242,6 +255,139 @@ function model(v: unknown, path: string): ModelSection {
     cv: cv(o.cv, `${path}.cv`),
     choice: choice(o.choice, `${path}.choice`),
     final: final(o.final, `${path}.final`),
+  };
+}
+
+function sparseModel(v: unknown, path: string): SparseModelSection {
+  const o = fields(v, path, [
+    "name",
+    "terms",
+    "standardize",
+    "intercept",
+    "penalty",
+    "objective",
+    "grid",
+    "cv",
+    "choice",
+    "final",
+  ]);
+  const p = fields(o.penalty, `${path}.penalty`, ["kind", "mix", "tolerance"]);
+  const g = fields(o.grid, `${path}.grid`, ["kind", "request", "values"]);
+  return {
+    name: nullable(o.name, `${path}.name`, text),
+    terms: list(o.terms, `${path}.terms`, term),
+    standardize: flag(o.standardize, `${path}.standardize`),
+    intercept: flag(o.intercept, `${path}.intercept`),
+    penalty: {
+      kind: oneOf(p.kind, `${path}.penalty.kind`, SPARSE_KINDS),
+      mix: num(p.mix, `${path}.penalty.mix`),
+      tolerance: num(p.tolerance, `${path}.penalty.tolerance`),
+    },
+    objective: list(o.objective, `${path}.objective`, text),
+    grid: {
+      kind: oneOf(g.kind, `${path}.grid.kind`, ["automatic", "explicit"] as const),
+      request: nullable(g.request, `${path}.grid.request`, (x, q) => {
+        const r = fields(x, q, ["count", "ratio"]);
+        return {
+          count: nullable(r.count, `${q}.count`, whole),
+          ratio: nullable(r.ratio, `${q}.ratio`, num),
+        };
+      }),
+      values: list(g.values, `${path}.grid.values`, num),
+    },
+    cv: sparseCv(o.cv, `${path}.cv`),
+    choice: sparseChoice(o.choice, `${path}.choice`),
+    final: sparseFinal(o.final, `${path}.final`),
+  };
+}
+
+const SPARSE_CV_COLUMNS = [
+  "alpha",
+  "cvMean",
+  "cvSe",
+  "trainMse",
+  "foldTrainMse",
+  "nonzero",
+  "penaltyValue",
+] as const;
+
+function sparseCv(v: unknown, path: string): SparseModelSection["cv"] {
+  const o = fields(v, path, ["definitions", ...SPARSE_CV_COLUMNS, "foldMse", "path"]);
+  const column = (key: typeof SPARSE_CV_COLUMNS[number]) => list(o[key], `${path}.${key}`, num);
+  const rows = (key: "foldMse" | "path") =>
+    list(o[key], `${path}.${key}`, (x, p) => list(x, p, num));
+  return {
+    definitions: list(o.definitions, `${path}.definitions`, text),
+    alpha: column("alpha"),
+    cvMean: column("cvMean"),
+    cvSe: column("cvSe"),
+    trainMse: column("trainMse"),
+    foldTrainMse: column("foldTrainMse"),
+    nonzero: list(o.nonzero, `${path}.nonzero`, whole),
+    penaltyValue: column("penaltyValue"),
+    foldMse: rows("foldMse"),
+    path: rows("path"),
+  };
+}
+
+function sparseChoice(v: unknown, path: string): SparseModelSection["choice"] {
+  const o = fields(v, path, ["rule", "definition", "index", "alpha", "minimum", "notes"]);
+  const m = fields(o.minimum, `${path}.minimum`, ["index", "alpha"]);
+  return {
+    rule: oneOf(o.rule, `${path}.rule`, ["min", "one-se"] as const),
+    definition: text(o.definition, `${path}.definition`),
+    index: whole(o.index, `${path}.index`),
+    alpha: num(o.alpha, `${path}.alpha`),
+    minimum: {
+      index: whole(m.index, `${path}.minimum.index`),
+      alpha: num(m.alpha, `${path}.minimum.alpha`),
+    },
+    notes: list(o.notes, `${path}.notes`, text),
+  };
+}
+
+function sparseFinal(v: unknown, path: string): SparseModelSection["final"] {
+  const o = fields(v, path, [
+    "n",
+    "alpha",
+    "penaltyValue",
+    "nonzero",
+    "names",
+    "intercept",
+    "coefficients",
+    "standardized",
+    "means",
+    "sds",
+    "trainMse",
+    "residualSd",
+    "condition",
+    "descent",
+  ]);
+  const s = fields(o.standardized, `${path}.standardized`, ["intercept", "coefficients"]);
+  const d = fields(o.descent, `${path}.descent`, ["passes", "converged", "violation", "gap"]);
+  return {
+    n: whole(o.n, `${path}.n`),
+    alpha: num(o.alpha, `${path}.alpha`),
+    penaltyValue: num(o.penaltyValue, `${path}.penaltyValue`),
+    nonzero: whole(o.nonzero, `${path}.nonzero`),
+    names: list(o.names, `${path}.names`, text),
+    intercept: num(o.intercept, `${path}.intercept`),
+    coefficients: list(o.coefficients, `${path}.coefficients`, num),
+    standardized: {
+      intercept: num(s.intercept, `${path}.standardized.intercept`),
+      coefficients: list(s.coefficients, `${path}.standardized.coefficients`, num),
+    },
+    means: list(o.means, `${path}.means`, num),
+    sds: list(o.sds, `${path}.sds`, num),
+    trainMse: num(o.trainMse, `${path}.trainMse`),
+    residualSd: num(o.residualSd, `${path}.residualSd`),
+    condition: num(o.condition, `${path}.condition`),
+    descent: {
+      passes: whole(d.passes, `${path}.descent.passes`),
+      converged: flag(d.converged, `${path}.descent.converged`),
+      violation: num(d.violation, `${path}.descent.violation`),
+      gap: num(d.gap, `${path}.descent.gap`),
+    },
   };
 }
 
@@ -377,10 +523,12 @@ function comparison(v: unknown, path: string): ComparisonSection {
     best: text(o.best, `${path}.best`),
     criterion: text(o.criterion, `${path}.criterion`),
     candidates: list(o.candidates, `${path}.candidates`, (x, p) => {
-      const c = fields(x, p, ["name", "lambda", "cvMean", "cvSe", "versusBest"]);
+      const key = isObject(x) && "alpha" in x ? "alpha" : "lambda";
+      const c = fields(x, p, ["name", key, "cvMean", "cvSe", "versusBest"]);
+      const strength = num(c[key], `${p}.${key}`);
       return {
         name: text(c.name, `${p}.name`),
-        lambda: num(c.lambda, `${p}.lambda`),
+        ...(key === "alpha" ? { alpha: strength } : { lambda: strength }),
         cvMean: num(c.cvMean, `${p}.cvMean`),
         cvSe: num(c.cvSe, `${p}.cvSe`),
         versusBest: nullable(c.versusBest, `${p}.versusBest`, (y, q) => {
@@ -417,6 +565,15 @@ function checkConsistent(r: ModelChoiceRecord): void {
     });
   }
   r.models.forEach((m, i) => checkModel(m, `record.models[${i}]`, single));
+  r.comparison?.candidates.forEach((c, i) => {
+    const m = r.models[i];
+    if (m !== undefined && ("alpha" in c) !== isSparseModel(m)) {
+      throw bad(
+        `record.comparison.candidates[${i}]`,
+        `gives a ${"alpha" in c ? "α" : "λ"} for a ${m.penalty.kind} model`,
+      );
+    }
+  });
 }
 
 function checkModel(m: ModelSection, path: string, single: boolean): void {
@@ -432,7 +589,7 @@ function checkModel(m: ModelSection, path: string, single: boolean): void {
   const p = outputs.length;
   for (
     const [key, v] of [
-      ["penalty.gamma", m.penalty.gamma],
+      ...(isSparseModel(m) ? [] : [["penalty.gamma", m.penalty.gamma] as const]),
       ["final.coefficients", m.final.coefficients],
       ["final.standardized.coefficients", m.final.standardized.coefficients],
       ["final.means", m.final.means],
@@ -441,13 +598,19 @@ function checkModel(m: ModelSection, path: string, single: boolean): void {
   ) sameLength(`${path}.${key}`, v.length, p, "design columns");
   const count = m.grid.values.length;
   if (count === 0) throw bad(`${path}.grid.values`, "is empty");
-  for (const key of CV_NUMBER_COLUMNS) {
-    sameLength(`${path}.cv.${key}`, m.cv[key].length, count, "grid values");
+  if (isSparseModel(m)) {
+    for (const key of SPARSE_CV_COLUMNS) {
+      sameLength(`${path}.cv.${key}`, m.cv[key].length, count, "grid values");
+    }
+  } else {
+    for (const key of CV_NUMBER_COLUMNS) {
+      sameLength(`${path}.cv.${key}`, m.cv[key].length, count, "grid values");
+    }
+    if ((m.cv.loo !== null) !== m.closedForm) {
+      throw bad(`${path}.cv.loo`, m.closedForm ? "is missing" : "is set without closedForm");
+    }
+    if (m.cv.loo !== null) sameLength(`${path}.cv.loo`, m.cv.loo.length, count, "grid values");
   }
-  if ((m.cv.loo !== null) !== m.closedForm) {
-    throw bad(`${path}.cv.loo`, m.closedForm ? "is missing" : "is set without closedForm");
-  }
-  if (m.cv.loo !== null) sameLength(`${path}.cv.loo`, m.cv.loo.length, count, "grid values");
   sameLength(`${path}.cv.foldMse`, m.cv.foldMse.length, count, "grid values");
   sameLength(`${path}.cv.path`, m.cv.path.length, count, "grid values");
   m.cv.foldMse.forEach((f, l) =>

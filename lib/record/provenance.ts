@@ -10,6 +10,7 @@ import type { Term } from "../design/types.ts";
 import type { FoldPlan } from "../folds/mod.ts";
 import type { FoldRequest } from "../sweep/folds.ts";
 import type { LambdaGrid } from "../sweep/grid.ts";
+import type { AlphaGrid } from "../sparse/grid.ts";
 import { type DataSummary, summarizeData } from "./fingerprint.ts";
 
 /** The data side of a sweep's provenance, shared by every candidate of a comparison. */
@@ -20,10 +21,12 @@ export interface SweepSource {
   readonly groups: string | null;
 }
 
-/** A sweep's provenance: its source plus its own λ grid request. */
+/** A sweep's provenance: its source plus its own λ (ridge) or α (sparse) grid request. */
 export interface SweepProvenance extends SweepSource {
   /** The `lambdas` option as given (copied), or null when it was left out. */
   readonly lambdas: LambdaGrid | null;
+  /** The `alphas` option as given (copied), or null when it was left out. */
+  readonly alphas: AlphaGrid | null;
 }
 
 /**
@@ -58,7 +61,7 @@ export function sweepSource(
 }
 
 /**
- * The provenance of one sweep: its source and a copy of its `lambdas` request.
+ * The provenance of one sweep: its source and copies of its `lambdas` and `alphas` requests.
  *
  * @example
  * ```ts
@@ -71,8 +74,16 @@ export function sweepSource(
 export function sweepProvenance(
   source: SweepSource,
   lambdas: LambdaGrid | undefined,
+  alphas?: AlphaGrid,
 ): SweepProvenance {
-  return { ...source, lambdas: copyGrid(lambdas) };
+  return { ...source, lambdas: copyGrid(lambdas), alphas: copyAlphas(alphas) };
+}
+
+function copyAlphas(grid: AlphaGrid | undefined): AlphaGrid | null {
+  if (grid === undefined) return null;
+  if (Array.isArray(grid)) return [...grid];
+  const { count, ratio } = grid as { count?: number; ratio?: number };
+  return { count, ratio };
 }
 
 function copyGrid(grid: LambdaGrid | undefined): LambdaGrid | null {

@@ -8,6 +8,7 @@
  * @module
  */
 import type { Json } from "../design/types.ts";
+import type { StrengthScale } from "../fit/penalty.ts";
 import type { FoldPlan } from "../folds/mod.ts";
 import type { ColumnSummary } from "./fingerprint.ts";
 
@@ -295,15 +296,15 @@ export interface FinalSection {
 }
 
 /**
- * One swept model.
+ * One swept ridge model (keys `lambda`: the ridge λ in sum-of-squares units).
  *
  * @example
  * ```ts
- * import type { ModelSection } from "./schema.ts";
- * const chosenError = (m: ModelSection) => m.cv.cvMean[m.choice.index];
+ * import type { RidgeModelSection } from "./schema.ts";
+ * const chosenError = (m: RidgeModelSection) => m.cv.cvMean[m.choice.index];
  * ```
  */
-export interface ModelSection {
+export interface RidgeModelSection {
   /** The candidate's name in a comparison; null for a single sweep. */
   readonly name: string | null;
   /** The terms, in design order. */
@@ -329,6 +330,253 @@ export interface ModelSection {
 }
 
 /**
+ * A lasso / elastic-net penalty: its family, L1 share ρ and the solver's stopping tolerance.
+ *
+ * @example
+ * ```ts
+ * import type { SparsePenaltySection } from "./schema.ts";
+ * const isLasso = (p: SparsePenaltySection) => p.mix === 1;
+ * ```
+ */
+export interface SparsePenaltySection {
+  /** The penalty family. */
+  readonly kind: "lasso" | "elastic-net";
+  /** ρ, the L1 share of the penalty (1 for the lasso). */
+  readonly mix: number;
+  /** Largest scaled KKT violation the coordinate-descent solver accepted (lib/sparse/descent.ts). */
+  readonly tolerance: number;
+}
+
+/**
+ * The α grid of a sparse model: the request as given, and the values swept (ascending).
+ *
+ * @example
+ * ```ts
+ * import type { SparseGridSection } from "./schema.ts";
+ * const depth = (g: SparseGridSection) => g.values[0] / g.values[g.values.length - 1];
+ * ```
+ */
+export interface SparseGridSection {
+  /** "automatic" (log-spaced down from the all-rows α_max) or "explicit" (a list was given). */
+  readonly kind: "automatic" | "explicit";
+  /** The automatic path's request (`alphas: { count, ratio }`), null fields for defaults. */
+  readonly request: { readonly count: number | null; readonly ratio: number | null } | null;
+  /** The α values swept, ascending. */
+  readonly values: readonly number[];
+}
+
+/**
+ * The cross-validation table of a sparse model, one entry per α (aligned with grid.values).
+ *
+ * @example
+ * ```ts
+ * import type { SparseCvSection } from "./schema.ts";
+ * const sparsest = (cv: SparseCvSection) => Math.min(...cv.nonzero);
+ * ```
+ */
+export interface SparseCvSection {
+  /** What each column means, in words. */
+  readonly definitions: readonly string[];
+  /** α of each row. */
+  readonly alpha: readonly number[];
+  /** Mean validation MSE over the K·R folds. */
+  readonly cvMean: readonly number[];
+  /** SD of the fold errors (divisor K·R − 1) / √K. */
+  readonly cvSe: readonly number[];
+  /** Training MSE of the all-rows fit. */
+  readonly trainMse: readonly number[];
+  /** Mean training MSE over the folds' training rows. */
+  readonly foldTrainMse: readonly number[];
+  /** Nonzero coefficients of the all-rows fit. */
+  readonly nonzero: readonly number[];
+  /** ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² of the all-rows fit (the penalty per unit α). */
+  readonly penaltyValue: readonly number[];
+  /** Per α: validation MSE of every fold, repeat-major. */
+  readonly foldMse: readonly (readonly number[])[];
+  /** Per α: standardized coefficients of the all-rows fit. */
+  readonly path: readonly (readonly number[])[];
+}
+
+/**
+ * The rule and the α it chose.
+ *
+ * @example
+ * ```ts
+ * import type { SparseChoiceSection } from "./schema.ts";
+ * const moved = (c: SparseChoiceSection) => c.index !== c.minimum.index;
+ * ```
+ */
+export interface SparseChoiceSection {
+  /** The selection rule. */
+  readonly rule: "min" | "one-se";
+  /** The rule in words. */
+  readonly definition: string;
+  /** Grid index of the chosen α. */
+  readonly index: number;
+  /** The chosen α. */
+  readonly alpha: number;
+  /** The grid point with the smallest mean CV error. */
+  readonly minimum: { readonly index: number; readonly alpha: number };
+  /** Plain-language notes, e.g. the minimum on an edge of the grid. */
+  readonly notes: readonly string[];
+}
+
+/**
+ * The chosen sparse model: the all-rows path's solution at the chosen α.
+ *
+ * @example
+ * ```ts
+ * import type { SparseFinalSection } from "./schema.ts";
+ * const kept = (f: SparseFinalSection) => f.names.filter((_, q) => f.coefficients[q] !== 0);
+ * ```
+ */
+export interface SparseFinalSection {
+  /** Rows fitted. */
+  readonly n: number;
+  /** The chosen α. */
+  readonly alpha: number;
+  /** ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² of the solution. */
+  readonly penaltyValue: number;
+  /** Nonzero coefficients (intercept not counted). */
+  readonly nonzero: number;
+  /** Design column names, in coefficient order. */
+  readonly names: readonly string[];
+  /** Intercept on the original scale. */
+  readonly intercept: number;
+  /** Coefficients on the original scale. */
+  readonly coefficients: readonly number[];
+  /** Standardized scale: w*_q = s_q w_q; intercept = prediction at the column means. */
+  readonly standardized: { readonly intercept: number; readonly coefficients: readonly number[] };
+  /** Column means of the design (standardization statistics; 0 when not standardizing). */
+  readonly means: readonly number[];
+  /** Column SDs of the design, divisor n (1 when not standardizing). */
+  readonly sds: readonly number[];
+  /** Training mean squared error. */
+  readonly trainMse: number;
+  /** √(RSS / (n − intercept − nonzero)). */
+  readonly residualSd: number;
+  /** 2-norm condition number of the centered, standardized design. */
+  readonly condition: number;
+  /** The coordinate-descent report of this solution. */
+  readonly descent: {
+    /** Coordinate passes over the columns. */
+    readonly passes: number;
+    /** Whether the KKT violation met penalty.tolerance. */
+    readonly converged: boolean;
+    /** Largest scaled KKT violation over all columns (lib/sparse/descent.ts). */
+    readonly violation: number;
+    /** Duality gap per observation, units of y² (lib/sparse/path.ts). */
+    readonly gap: number;
+  };
+}
+
+/**
+ * One swept lasso / elastic-net model (keys `alpha`: α in the 1/(2N) convention, never the
+ * ridge λ). It has no `closedForm` field: closed-form leave-one-out is a ridge identity.
+ *
+ * @example
+ * ```ts
+ * import type { SparseModelSection } from "./schema.ts";
+ * const chosenNonzero = (m: SparseModelSection) => m.cv.nonzero[m.choice.index];
+ * ```
+ */
+export interface SparseModelSection {
+  /** The candidate's name in a comparison; null for a single sweep. */
+  readonly name: string | null;
+  /** The terms, in design order. */
+  readonly terms: readonly TermSection[];
+  /** Whether design columns were standardized with training statistics. */
+  readonly standardize: boolean;
+  /** Whether an unpenalized intercept was fitted. */
+  readonly intercept: boolean;
+  /** The penalty and solver tolerance. */
+  readonly penalty: SparsePenaltySection;
+  /** The objective written out, one statement per line. */
+  readonly objective: readonly string[];
+  /** The α grid. */
+  readonly grid: SparseGridSection;
+  /** The cross-validation table. */
+  readonly cv: SparseCvSection;
+  /** The rule and its choice. */
+  readonly choice: SparseChoiceSection;
+  /** The chosen model on all rows. */
+  readonly final: SparseFinalSection;
+}
+
+/**
+ * One swept model: ridge (keys `lambda`) or lasso / elastic net (keys `alpha`); tell them apart
+ * with `isSparseModel`.
+ *
+ * @example
+ * ```ts
+ * import { type ModelSection, modelStrengths } from "./schema.ts";
+ * const chosen = (m: ModelSection) => modelStrengths(m).chosen;
+ * ```
+ */
+export type ModelSection = RidgeModelSection | SparseModelSection;
+
+/**
+ * Whether a recorded model is lasso / elastic net (its keys say `alpha`).
+ *
+ * @example
+ * ```ts
+ * import { isSparseModel, type ModelSection } from "./schema.ts";
+ * const symbol = (m: ModelSection) => (isSparseModel(m) ? "α" : "λ");
+ * ```
+ */
+export function isSparseModel(m: ModelSection): m is SparseModelSection {
+  return m.penalty.kind === "lasso" || m.penalty.kind === "elastic-net";
+}
+
+/**
+ * A recorded model's strengths on its own scale: the grid (ascending), the chosen and the
+ * minimum-error value, the final model's, and per grid value its size (ridge: effective df;
+ * sparse: nonzero count) and penalty measure (ridge: budget C(λ); sparse: ρ‖w*‖₁ + …).
+ *
+ * @example
+ * ```ts
+ * import { type ModelSection, modelStrengths } from "./schema.ts";
+ * const label = (m: ModelSection) => `${modelStrengths(m).scale} = ${modelStrengths(m).chosen}`;
+ * ```
+ */
+export function modelStrengths(m: ModelSection): {
+  readonly scale: StrengthScale;
+  readonly grid: readonly number[];
+  readonly chosen: number;
+  readonly minimum: number;
+  readonly final: number;
+  readonly size: readonly number[];
+  readonly measure: readonly number[];
+  readonly finalSize: number;
+  readonly finalMeasure: number;
+} {
+  if (isSparseModel(m)) {
+    return {
+      scale: "alpha",
+      grid: m.cv.alpha,
+      chosen: m.choice.alpha,
+      minimum: m.choice.minimum.alpha,
+      final: m.final.alpha,
+      size: m.cv.nonzero,
+      measure: m.cv.penaltyValue,
+      finalSize: m.final.nonzero,
+      finalMeasure: m.final.penaltyValue,
+    };
+  }
+  return {
+    scale: "lambda",
+    grid: m.cv.lambda,
+    chosen: m.choice.lambda,
+    minimum: m.choice.minimum.lambda,
+    final: m.final.lambda,
+    size: m.cv.df,
+    measure: m.cv.budget,
+    finalSize: m.final.df,
+    finalMeasure: m.final.budget,
+  };
+}
+
+/**
  * One candidate's standing in a comparison.
  *
  * @example
@@ -337,11 +585,20 @@ export interface ModelSection {
  * const tied = (c: CandidateStanding) => c.versusBest?.indistinguishable ?? true;
  * ```
  */
-export interface CandidateStanding {
+export type CandidateStanding = RidgeStanding | SparseStanding;
+
+/**
+ * What every candidate's standing holds besides its chosen strength.
+ *
+ * @example
+ * ```ts
+ * import type { StandingCommon } from "./schema.ts";
+ * const tied = (c: StandingCommon) => c.versusBest?.indistinguishable ?? true;
+ * ```
+ */
+export interface StandingCommon {
   /** The candidate's name. */
   readonly name: string;
-  /** Its chosen λ. */
-  readonly lambda: number;
   /** Mean CV error at its chosen λ. */
   readonly cvMean: number;
   /** Standard error of that mean. */
@@ -352,6 +609,47 @@ export interface CandidateStanding {
     readonly se: number;
     readonly indistinguishable: boolean;
   } | null;
+}
+
+/**
+ * A ridge candidate's standing: chosen λ first (key `lambda`).
+ *
+ * @example
+ * ```ts
+ * import type { RidgeStanding } from "./schema.ts";
+ * const chosen = (c: RidgeStanding) => c.lambda;
+ * ```
+ */
+export interface RidgeStanding extends StandingCommon {
+  /** Its chosen λ. */
+  readonly lambda: number;
+}
+
+/**
+ * A lasso / elastic-net candidate's standing: chosen α (key `alpha`).
+ *
+ * @example
+ * ```ts
+ * import type { SparseStanding } from "./schema.ts";
+ * const chosen = (c: SparseStanding) => c.alpha;
+ * ```
+ */
+export interface SparseStanding extends StandingCommon {
+  /** Its chosen α. */
+  readonly alpha: number;
+}
+
+/**
+ * A candidate's chosen strength, whichever its scale.
+ *
+ * @example
+ * ```ts
+ * import { type CandidateStanding, standingStrength } from "./schema.ts";
+ * const chosen = (c: CandidateStanding) => standingStrength(c);
+ * ```
+ */
+export function standingStrength(c: CandidateStanding): number {
+  return "alpha" in c ? c.alpha : c.lambda;
 }
 
 /**
@@ -379,9 +677,9 @@ export interface ComparisonSection {
  *
  * @example
  * ```ts
- * import type { ModelChoiceRecord } from "./schema.ts";
+ * import { type ModelChoiceRecord, modelStrengths } from "./schema.ts";
  * const headline = (r: ModelChoiceRecord) =>
- *   r.models.map((m) => `${m.name ?? r.target}: λ = ${m.choice.lambda} (${m.choice.rule})`);
+ *   r.models.map((m) => `${m.name ?? r.target}: ${modelStrengths(m).chosen} (${m.choice.rule})`);
  * ```
  */
 export interface ModelChoiceRecord {

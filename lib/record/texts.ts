@@ -5,7 +5,8 @@
  *
  * @module
  */
-import type { RidgePenalty } from "../fit/penalty.ts";
+import type { RidgePenalty, StrengthScale } from "../fit/penalty.ts";
+import type { SparsePenalty } from "../sparse/mod.ts";
 import type { SelectionRule } from "../sweep/select.ts";
 
 /**
@@ -36,6 +37,42 @@ export function objectiveLines(
     "λ ≥ 0 in sum-of-squares units; per training row the objective is " +
     "E_in + (λ/N) Σ_q γ_q (s_q w_q)², with E_in the training mean squared error and N the " +
     "number of training rows",
+  ];
+}
+
+/**
+ * The objective of one lasso / elastic-net model, one statement per line (the 1/(2N)
+ * convention of lib/sparse/penalty.ts), with the solver and its stopping rule.
+ *
+ * @example
+ * ```ts
+ * import { sparseObjectiveLines } from "./texts.ts";
+ * console.log(sparseObjectiveLines({ kind: "lasso", mix: 1 }, true, true)[0]);
+ * ```
+ */
+export function sparseObjectiveLines(
+  penalty: SparsePenalty,
+  standardize: boolean,
+  intercept: boolean,
+): string[] {
+  return [
+    "minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α [ρ Σ_q |s_q w_q| + ((1 − ρ)/2) Σ_q (s_q w_q)²] " +
+    "over b and w",
+    "zᵢ: row i of the design (the terms' output columns, final.names); w_q: coefficient of " +
+    "column q on the original scale; N: the number of training rows",
+    standardize
+      ? "s_q: standard deviation (divisor n) of design column q over the training rows; " +
+        "s_q w_q is the standardized coefficient"
+      : "s_q = 1 (standardize: false): the penalty acts on the original-scale coefficients",
+    intercept ? "b: the intercept, never penalized" : "b = 0 (intercept: false)",
+    penalty.kind === "lasso"
+      ? "ρ = 1 (lasso): the penalty is α Σ_q |s_q w_q|"
+      : `ρ = ${penalty.mix} (elastic net): the L1 share of the penalty`,
+    "α > 0 in the 1/(2N) convention common to coordinate-descent solvers; it is not the ridge λ " +
+    "(the quadratic part alone is ridge with λ = N·α·(1 − ρ))",
+    "solved by cyclic coordinate descent with covariance updates (Friedman, Hastie & Tibshirani " +
+    "2010), warm-started along the decreasing α path, stopped when every column's scaled KKT " +
+    "violation is at most penalty.tolerance; final.descent reports the violation and the duality gap",
   ];
 }
 
@@ -74,6 +111,28 @@ export const CV_DEFINITIONS: readonly string[] = Object.freeze([
 ]);
 
 /**
+ * What each column of a sparse model's CV table means.
+ *
+ * @example
+ * ```ts
+ * import { SPARSE_CV_DEFINITIONS } from "./texts.ts";
+ * console.log(SPARSE_CV_DEFINITIONS.length > 0); // true
+ * ```
+ */
+export const SPARSE_CV_DEFINITIONS: readonly string[] = Object.freeze([
+  "foldMse[l][f]: mean squared error on the validation rows of fold f at α = alpha[l], " +
+  "fitted on that fold's training rows with terms and standardization learned on them only; " +
+  "folds are repeat-major (repeat 0 folds 0…K−1, then repeat 1, …); every fold is solved at " +
+  "the same α values, those of the all-rows path",
+  CV_DEFINITIONS[1],
+  CV_DEFINITIONS[2],
+  "nonzero: number of nonzero coefficients of the all-rows fit (intercept not counted); " +
+  "penaltyValue: ρ Σ_q |s_q w_q| + ((1 − ρ)/2) Σ_q (s_q w_q)² of the all-rows fit",
+  "path[l]: standardized coefficients s_q w_q of the all-rows fit at α = alpha[l], in " +
+  "final.names order",
+]);
+
+/**
  * The rule in words.
  *
  * @example
@@ -82,10 +141,11 @@ export const CV_DEFINITIONS: readonly string[] = Object.freeze([
  * console.log(ruleDefinition("min")); // min: the λ with the smallest cvMean (the first on ties)
  * ```
  */
-export function ruleDefinition(rule: SelectionRule): string {
+export function ruleDefinition(rule: SelectionRule, scale: StrengthScale = "lambda"): string {
+  const symbol = scale === "alpha" ? "α" : "λ";
   return rule === "min"
-    ? "min: the λ with the smallest cvMean (the first on ties)"
-    : "one-se: the largest λ whose cvMean is at most cvMean + cvSe at the minimum " +
+    ? `min: the ${symbol} with the smallest cvMean (the first on ties)`
+    : `one-se: the largest ${symbol} whose cvMean is at most cvMean + cvSe at the minimum ` +
       "(Breiman, Friedman, Olshen & Stone 1984)";
 }
 
@@ -102,6 +162,21 @@ export const COMPARISON_CRITERION = "paired per-fold differences d_f = foldMse_f
   "foldMse_f(best), each at its own chosen λ, on the identical folds; mean ± SE with SE = " +
   "SD(d)/√K; indistinguishable when |mean| ≤ 2·SE (a rough screen: fold errors are " +
   "correlated, so this is not a formal test)";
+
+/**
+ * How a comparison pairs candidates, when some candidate is lasso / elastic net (each at its
+ * own chosen strength, λ or α).
+ *
+ * @example
+ * ```ts
+ * import { SPARSE_COMPARISON_CRITERION } from "./texts.ts";
+ * console.log(SPARSE_COMPARISON_CRITERION.includes("α")); // true
+ * ```
+ */
+export const SPARSE_COMPARISON_CRITERION = COMPARISON_CRITERION.replace(
+  "its own chosen λ",
+  "its own chosen strength (λ for ridge, α for lasso / elastic net)",
+);
 
 /**
  * Plain cautions every record carries.

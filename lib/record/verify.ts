@@ -8,8 +8,10 @@
  *    column (or the recorded assignment, for plans that cannot be rebuilt), and its
  *    assignment SHA-256 (exact).
  * 3. Models: the sweep (or comparison) run again on `data` with the recorded terms, penalty,
- *    standardization, intercept, grid, rule and rebuilt folds; every computed field compared
- *    (numbers at relative 1e-9, integers and text exactly).
+ *    standardization, intercept, grid, rule and rebuilt folds (lasso / elastic net: ρ and the
+ *    solver tolerance too); every computed field compared (numbers at relative 1e-9, integers
+ *    and text exactly). Sparse replays are bit-identical on the same software (the solver's
+ *    passes repeat exactly), so 1e-9 holds for them too (lib/record/README.md).
  *
  * Settings (term recipes, penalty, grid, rule, seed, k, …) are inputs: an edited setting shows
  * up through what it changes (an edited seed gives another assignment hash; an edited λ gives
@@ -23,6 +25,7 @@ import { toTable } from "../table/mod.ts";
 import { termFromSpec } from "../design/mod.ts";
 import type { TableInput } from "../fit/fit.ts";
 import { ridge } from "../fit/penalty.ts";
+import { elasticNet, lasso } from "../sparse/mod.ts";
 import {
   assignmentDigest,
   explicitPlan,
@@ -39,12 +42,16 @@ import type { LambdaGrid } from "../sweep/grid.ts";
 import { ROW_ENCODING, summarizeData } from "./fingerprint.ts";
 import { comparisonSection, dataSection, modelSection, softwareSection } from "./build.ts";
 import { parseRecord } from "./parse.ts";
-import type {
-  ComparisonSection,
-  DataSection,
-  FoldsSection,
-  ModelChoiceRecord,
-  ModelSection,
+import {
+  type ComparisonSection,
+  type DataSection,
+  type FoldsSection,
+  isSparseModel,
+  type ModelChoiceRecord,
+  type ModelSection,
+  modelStrengths,
+  type RidgeModelSection,
+  standingStrength,
 } from "./schema.ts";
 import { CAUTIONS } from "./texts.ts";
 import { Checks, type VerifyEntry } from "./checks.ts";
@@ -216,9 +223,26 @@ function rerun(
 
 /** The sweep settings a model section records. */
 function modelSpec(m: ModelSection, target: string): SweepSpec {
+  const terms = m.terms.map((t, j) => termFromSpec(t.spec, `terms[${j}]`));
+  if (isSparseModel(m)) {
+    const v = m.grid.values;
+    return {
+      target,
+      terms,
+      penalty: m.penalty.kind === "lasso" ? lasso() : elasticNet({ mix: m.penalty.mix }),
+      tolerance: m.penalty.tolerance,
+      standardize: m.standardize,
+      intercept: m.intercept,
+      alphas: m.grid.kind === "explicit" ? [...v] : {
+        count: v.length,
+        ...(m.grid.request?.ratio == null ? {} : { ratio: m.grid.request.ratio }),
+      },
+      rule: m.choice.rule,
+    };
+  }
   return {
     target,
-    terms: m.terms.map((t, j) => termFromSpec(t.spec, `terms[${j}]`)),
+    terms,
     penalty: ridge({ weights: m.penalty.weights, exponent: m.penalty.exponent }),
     standardize: m.standardize,
     intercept: m.intercept,
@@ -232,15 +256,19 @@ function modelSpec(m: ModelSection, target: string): SweepSpec {
  * The grid to rerun with: an explicit grid as listed; an automatic grid as a request with the
  * recorded count and ends, which regenerates the same log-spaced values and the same notes.
  */
-function gridRequest(m: ModelSection): LambdaGrid {
+function gridRequest(m: RidgeModelSection): LambdaGrid {
   const v = m.grid.values;
   if (m.grid.kind === "explicit") return [...v];
   return { count: v.length, min: v[0], max: v[v.length - 1] };
 }
 
 function checkModel(checks: Checks, at: string, rec: ModelSection, now: ModelSection): void {
-  const lambdaAt = (l: number) => `λ index ${l} (λ = ${rec.grid.values[l]})`;
+  const recorded = modelStrengths(rec);
+  const fresh = modelStrengths(now);
+  const symbol = recorded.scale === "alpha" ? "α" : "λ";
+  const strengthAt = (l: number) => `${symbol} index ${l} (${symbol} = ${rec.grid.values[l]})`;
   const column = (q: number) => `column ${q} (${rec.final.names[q] ?? "?"})`;
+  const key = recorded.scale;
   rec.terms.forEach((t, j) => {
     const n = now.terms[j];
     checks.exact(`${at}.terms[${j}].label`, t.label, n?.label);
@@ -248,64 +276,78 @@ function checkModel(checks: Checks, at: string, rec: ModelSection, now: ModelSec
     checks.exact(`${at}.terms[${j}].outputs`, t.outputs, n?.outputs);
     checks.exact(`${at}.terms[${j}].orders`, t.orders, n?.orders);
   });
-  checks.numbers(`${at}.penalty.gamma`, rec.penalty.gamma, now.penalty.gamma, "each", column);
+  if (!isSparseModel(rec) && !isSparseModel(now)) {
+    checks.numbers(`${at}.penalty.gamma`, rec.penalty.gamma, now.penalty.gamma, "each", column);
+  } else checks.exact(`${at}.penalty`, rec.penalty, now.penalty);
   checks.exact(`${at}.objective`, rec.objective, now.objective);
-  checks.numbers(`${at}.grid.values`, rec.grid.values, now.grid.values, "each", lambdaAt);
+  checks.numbers(`${at}.grid.values`, rec.grid.values, now.grid.values, "each", strengthAt);
   checks.exact(`${at}.cv.definitions`, rec.cv.definitions, now.cv.definitions);
-  for (
-    const key of [
-      "lambda",
-      "cvMean",
-      "cvSe",
-      "trainMse",
-      "foldTrainMse",
-      "df",
-      "budget",
-      "gcv",
-    ] as const
-  ) {
-    checks.numbers(`${at}.cv.${key}`, rec.cv[key], now.cv[key], "each", lambdaAt);
+  checks.numbers(`${at}.cv.${key}`, recorded.grid, fresh.grid, "each", strengthAt);
+  for (const k of ["cvMean", "cvSe", "trainMse", "foldTrainMse"] as const) {
+    checks.numbers(`${at}.cv.${k}`, rec.cv[k], now.cv[k], "each", strengthAt);
   }
-  if (rec.cv.loo === null || now.cv.loo === null) {
-    checks.exact(`${at}.cv.loo`, rec.cv.loo, now.cv.loo);
-  } else checks.numbers(`${at}.cv.loo`, rec.cv.loo, now.cv.loo, "each", lambdaAt);
+  if (isSparseModel(rec) && isSparseModel(now)) {
+    checks.exact(`${at}.cv.nonzero`, rec.cv.nonzero, now.cv.nonzero);
+    checks.numbers(
+      `${at}.cv.penaltyValue`,
+      rec.cv.penaltyValue,
+      now.cv.penaltyValue,
+      "each",
+      strengthAt,
+    );
+  } else if (!isSparseModel(rec) && !isSparseModel(now)) {
+    for (const k of ["df", "budget", "gcv"] as const) {
+      checks.numbers(`${at}.cv.${k}`, rec.cv[k], now.cv[k], "each", strengthAt);
+    }
+    if (rec.cv.loo === null || now.cv.loo === null) {
+      checks.exact(`${at}.cv.loo`, rec.cv.loo, now.cv.loo);
+    } else checks.numbers(`${at}.cv.loo`, rec.cv.loo, now.cv.loo, "each", strengthAt);
+  }
   checks.rows(
     `${at}.cv.foldMse`,
     rec.cv.foldMse,
     now.cv.foldMse,
     "each",
-    (l, f) => `${lambdaAt(l)}, fold ${f}`,
+    (l, f) => `${strengthAt(l)}, fold ${f}`,
   );
   checks.rows(
     `${at}.cv.path`,
     rec.cv.path,
     now.cv.path,
     "vector",
-    (l, q) => `${lambdaAt(l)}, ${column(q)}`,
+    (l, q) => `${strengthAt(l)}, ${column(q)}`,
   );
   checks.exact(`${at}.choice.definition`, rec.choice.definition, now.choice.definition);
   checks.exact(`${at}.choice.index`, rec.choice.index, now.choice.index);
-  checks.number(`${at}.choice.lambda`, rec.choice.lambda, now.choice.lambda);
+  checks.number(`${at}.choice.${key}`, recorded.chosen, fresh.chosen);
   checks.exact(`${at}.choice.minimum.index`, rec.choice.minimum.index, now.choice.minimum.index);
-  checks.number(
-    `${at}.choice.minimum.lambda`,
-    rec.choice.minimum.lambda,
-    now.choice.minimum.lambda,
-  );
+  checks.number(`${at}.choice.minimum.${key}`, recorded.minimum, fresh.minimum);
   checks.exact(`${at}.choice.notes`, rec.choice.notes, now.choice.notes);
-  checkFinal(checks, `${at}.final`, rec.final, now.final, column);
+  checkFinal(checks, `${at}.final`, rec, now, column);
 }
 
 function checkFinal(
   checks: Checks,
   at: string,
-  rec: ModelSection["final"],
-  now: ModelSection["final"],
+  recModel: ModelSection,
+  nowModel: ModelSection,
   column: (q: number) => string,
 ): void {
+  const rec = recModel.final;
+  const now = nowModel.final;
   checks.exact(`${at}.n`, rec.n, now.n);
-  for (const key of ["lambda", "budget", "df"] as const) {
-    checks.number(`${at}.${key}`, rec[key], now[key]);
+  if (isSparseModel(recModel) && isSparseModel(nowModel)) {
+    const r = recModel.final;
+    const n = nowModel.final;
+    checks.number(`${at}.alpha`, r.alpha, n.alpha);
+    checks.number(`${at}.penaltyValue`, r.penaltyValue, n.penaltyValue);
+    checks.exact(`${at}.nonzero`, r.nonzero, n.nonzero);
+  } else if (!isSparseModel(recModel) && !isSparseModel(nowModel)) {
+    const r = recModel.final;
+    const n = nowModel.final;
+    for (const key of ["lambda", "budget", "df"] as const) {
+      checks.number(`${at}.${key}`, r[key], n[key]);
+    }
   }
   checks.exact(`${at}.names`, rec.names, now.names);
   checks.number(`${at}.intercept`, rec.intercept, now.intercept);
@@ -327,7 +369,20 @@ function checkFinal(
   for (const key of ["trainMse", "residualSd", "condition"] as const) {
     checks.number(`${at}.${key}`, rec[key], now[key]);
   }
-  checks.exact(`${at}.refinementSteps`, rec.refinementSteps, now.refinementSteps);
+  if (isSparseModel(recModel) && isSparseModel(nowModel)) {
+    const r = recModel.final.descent;
+    const n = nowModel.final.descent;
+    checks.exact(`${at}.descent.passes`, r.passes, n.passes);
+    checks.exact(`${at}.descent.converged`, r.converged, n.converged);
+    checks.number(`${at}.descent.violation`, r.violation, n.violation);
+    checks.number(`${at}.descent.gap`, r.gap, n.gap);
+  } else if (!isSparseModel(recModel) && !isSparseModel(nowModel)) {
+    checks.exact(
+      `${at}.refinementSteps`,
+      recModel.final.refinementSteps,
+      nowModel.final.refinementSteps,
+    );
+  }
 }
 
 function checkComparison(checks: Checks, rec: ComparisonSection, now: ComparisonSection): void {
@@ -337,7 +392,12 @@ function checkComparison(checks: Checks, rec: ComparisonSection, now: Comparison
     const n = now.candidates[i];
     const at = `comparison.candidates[${i}]`;
     checks.exact(`${at}.name`, c.name, n.name);
-    for (const key of ["lambda", "cvMean", "cvSe"] as const) {
+    checks.number(
+      `${at}.${"alpha" in c ? "alpha" : "lambda"}`,
+      standingStrength(c),
+      standingStrength(n),
+    );
+    for (const key of ["cvMean", "cvSe"] as const) {
       checks.number(`${at}.${key}`, c[key], n[key]);
     }
     if (c.versusBest === null || n.versusBest === null) {
@@ -373,6 +433,13 @@ function notes(rec: ModelChoiceRecord, table: Table): string[] {
     out.push(
       "The software differs: numbers may differ in their last digits; the tolerances above apply.",
     );
+    if (rec.models.some(isSparseModel)) {
+      out.push(
+        "Lasso / elastic-net numbers come from an iterative solver stopped at a scaled KKT " +
+          "violation ≤ penalty.tolerance: on other software they may move by that much, more " +
+          "than the 1e-9 tolerance.",
+      );
+    }
   }
   if (rec.created !== null) out.push(`Record created ${rec.created}.`);
   if (rec.data.source !== table.source) {

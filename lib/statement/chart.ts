@@ -5,7 +5,8 @@
  *
  * @module
  */
-import type { ModelChoiceRecord } from "../record/mod.ts";
+import { type ModelChoiceRecord, modelStrengths } from "../record/mod.ts";
+import { strengthSymbol } from "../fit/penalty.ts";
 import type { VegaLiteSpec } from "../views/render.ts";
 import { recordComparisonSource, recordCurveSource } from "../views/display.ts";
 import { comparisonChart } from "../views/charts/comparison.ts";
@@ -51,10 +52,12 @@ export function evidenceSpec(record: ModelChoiceRecord): VegaLiteSpec {
  * ```
  */
 export function evidenceCaption(record: ModelChoiceRecord): string {
+  const symbol = [...new Set(record.models.map((m) => strengthSymbol(modelStrengths(m).scale)))]
+    .join(" or ");
   const what = record.comparison === null
-    ? "The validation curve: mean CV error at each λ with a band of ± 1 standard error, the " +
-      "minimum and the chosen λ marked"
-    : "Each candidate's CV error at its chosen λ, the paired per-fold differences to the best, " +
+    ? `The validation curve: mean CV error at each ${symbol} with a band of ± 1 standard ` +
+      `error, the minimum and the chosen ${symbol} marked`
+    : `Each candidate's CV error at its chosen ${symbol}, the paired per-fold differences to the best, ` +
       "and every candidate's validation curve";
   return `${what}; redrawn from the record's CV tables. Lower is better on these rows; it is ` +
     "an estimate, not a promise for new data.";

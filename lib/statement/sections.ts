@@ -4,14 +4,18 @@
  *
  * @module
  */
-import type {
-  ColumnSummary,
-  FinalSection,
-  FoldsSection,
-  ModelChoiceRecord,
-  ModelSection,
-  PenaltySection,
+import {
+  type ColumnSummary,
+  type FinalSection,
+  type FoldsSection,
+  isSparseModel,
+  type ModelChoiceRecord,
+  type ModelSection,
+  modelStrengths,
+  type PenaltySection,
+  type SparsePenaltySection,
 } from "../record/mod.ts";
+import { strengthSymbol } from "../fit/penalty.ts";
 import type { CellTable } from "../views/table.ts";
 import { formatNumber } from "../views/table.ts";
 import { rerunCommand, shellLines, verifyCommand } from "../cli/rerun.ts";
@@ -53,6 +57,16 @@ export interface SectionOptions {
   readonly recordPath: string;
   /** Where the reader finds the data file (for the commands shown). */
   readonly dataPath: string;
+}
+
+/** The strength symbol of a model: λ (ridge) or α (lasso / elastic net). */
+function symbolOf(m: ModelSection): string {
+  return strengthSymbol(modelStrengths(m).scale);
+}
+
+/** The strength symbols of a record's models: "λ", "α", or "λ or α" when they differ. */
+function symbolsOf(record: ModelChoiceRecord): string {
+  return [...new Set(record.models.map(symbolOf))].join(" or ");
 }
 
 /** `n thing` or `n things`. */
@@ -105,10 +119,16 @@ export function describeFolds(f: FoldsSection): string {
  * ```
  */
 export function describePenalty(
-  p: Pick<PenaltySection, "weights" | "exponent">,
+  p: Pick<PenaltySection, "weights" | "exponent"> | SparsePenaltySection,
   standardize: boolean,
   intercept: boolean,
 ): string {
+  const scale = standardize ? "standardized" : "raw scale";
+  const tail = `${scale}${intercept ? "" : "; no intercept"}`;
+  if ("mix" in p) {
+    const family = p.kind === "lasso" ? "lasso" : `elastic net, L1 share ρ = ${p.mix}`;
+    return `${family}, α in the 1/(2N) convention; ${tail}`;
+  }
   const gamma = typeof p.weights !== "string"
     ? "γ given per column"
     : p.weights === "equal"
@@ -116,14 +136,16 @@ export function describePenalty(
     : p.weights === "rising"
     ? `γ_q = order^${p.exponent} (higher orders cost more)`
     : `γ_q = order^−${p.exponent} (lower orders cost more)`;
-  const scale = standardize ? "standardized" : "raw scale";
-  return `ridge, ${gamma}; ${scale}${intercept ? "" : "; no intercept"}`;
+  return `ridge, ${gamma}; ${tail}`;
 }
 
 function describeGrid(m: ModelSection): string {
   const v = m.grid.values;
   if (m.grid.kind === "explicit" && v.length <= 6) {
-    return v.length === 1 ? `λ = ${num(v[0])} only` : `λ ∈ {${v.map(num).join(", ")}}`;
+    const symbol = symbolOf(m);
+    return v.length === 1
+      ? `${symbol} = ${num(v[0])} only`
+      : `${symbol} ∈ {${v.map(num).join(", ")}}`;
   }
   const spacing = m.grid.kind === "automatic" ? "log-spaced " : "";
   return `${v.length} ${spacing}values from ${num(v[0])} to ${num(v[v.length - 1])}`;
@@ -184,7 +206,7 @@ export function questionBlocks(record: ModelChoiceRecord): Block[] {
         parts: [
           "How strongly should the model of ",
           { strong: record.target },
-          ` on ${termLabels(m)} be penalized? The penalty strength λ is chosen from ` +
+          ` on ${termLabels(m)} be penalized? The penalty strength ${symbolOf(m)} is chosen from ` +
           `${describeGrid(m)} by ${cv}, using the ${ruleName(m.choice.rule)}.`,
         ],
       },
@@ -198,7 +220,9 @@ export function questionBlocks(record: ModelChoiceRecord): Block[] {
         `Which of ${record.models.length} candidate models predicts `,
         { strong: record.target },
         ` best on rows like these, and how strongly should it be penalized? Each candidate's ` +
-        `λ is chosen by ${cv}; all candidates use the same folds, so their fold errors are ` +
+        `${
+          symbolsOf(record)
+        } is chosen by ${cv}; all candidates use the same folds, so their fold errors are ` +
         "compared in pairs.",
       ],
     },
@@ -280,7 +304,14 @@ export function dataBlocks(record: ModelChoiceRecord): Block[] {
  */
 export function candidateBlocks(record: ModelChoiceRecord): Block[] {
   const table: CellTable = {
-    header: ["candidate", "terms", "design columns", "penalty", "λ tried", "rule"],
+    header: [
+      "candidate",
+      "terms",
+      "design columns",
+      "penalty",
+      `${symbolsOf(record)} tried`,
+      "rule",
+    ],
     rows: record.models.map((m) => [
       modelLabel(m, record.target),
       termLabels(m),
@@ -314,20 +345,20 @@ export function standingTable(record: ModelChoiceRecord): CellTable {
   return {
     header: [
       record.kind === "sweep" ? "model" : "candidate",
-      "chosen λ",
+      `chosen ${symbolsOf(record).replace(" or ", " / ")}`,
       "CV error",
       "± SE",
-      "df",
+      [...new Set(record.models.map((m) => (isSparseModel(m) ? "nonzero" : "df")))].join(" / "),
       ...(comparison ? ["vs best: paired difference", "± SE", "verdict"] : []),
     ],
     rows: record.models.map((m, i) => {
       const c = m.choice.index;
       const base = [
         modelLabel(m, record.target),
-        m.choice.lambda,
+        modelStrengths(m).chosen,
         m.cv.cvMean[c],
         m.cv.cvSe[c],
-        m.cv.df[c],
+        modelStrengths(m).size[c],
       ];
       if (comparison === null) return base;
       const vs = comparison.candidates[i].versusBest;
@@ -337,8 +368,31 @@ export function standingTable(record: ModelChoiceRecord): CellTable {
   };
 }
 
-/** The full per-λ CV table of one model (folded away in HTML). */
+/** The mark of grid index `l`: chosen, smallest CV error, both or neither. */
+function markOf(m: ModelSection, l: number): string {
+  return [
+    l === m.choice.index ? "chosen" : "",
+    l === m.choice.minimum.index ? "smallest CV error" : "",
+  ].filter((s) => s !== "").join(", ");
+}
+
+/** The full per-λ (or per-α) CV table of one model (folded away in HTML). */
 function cvTable(m: ModelSection): CellTable {
+  if (isSparseModel(m)) {
+    const cv = m.cv;
+    return {
+      header: ["α", "CV error", "± SE", "training MSE", "nonzero", "penalty value", "mark"],
+      rows: cv.alpha.map((alpha, l) => [
+        alpha,
+        cv.cvMean[l],
+        cv.cvSe[l],
+        cv.trainMse[l],
+        cv.nonzero[l],
+        cv.penaltyValue[l],
+        markOf(m, l),
+      ]),
+    };
+  }
   const cv = m.cv;
   return {
     header: [
@@ -361,10 +415,7 @@ function cvTable(m: ModelSection): CellTable {
       cv.budget[l],
       cv.gcv[l],
       ...(cv.loo ? [cv.loo[l]] : []),
-      [
-        l === m.choice.index ? "chosen" : "",
-        l === m.choice.minimum.index ? "smallest CV error" : "",
-      ].filter((s) => s !== "").join(", "),
+      markOf(m, l),
     ]),
   };
 }
@@ -403,9 +454,10 @@ export function evidenceBlocks(record: ModelChoiceRecord): Block[] {
     },
     {
       kind: "details",
-      summary: "Every λ tried: cross-validation table",
+      summary: `Every ${symbolsOf(record)} tried: cross-validation table`,
       blocks: details,
-      elsewhere: "The full table for every λ tried is in the record (models[i].cv) and in the " +
+      elsewhere: `The full table for every ${symbolsOf(record)} tried is in the record` +
+        " (models[i].cv) and in the " +
         "HTML form of this statement.",
     },
   ];
@@ -458,24 +510,27 @@ export function decisionBlocks(record: ModelChoiceRecord): Block[] {
   const m = chosenModel(record);
   const min = m.choice.minimum.index;
   const single = m.grid.values.length === 1;
+  const st = modelStrengths(m);
+  const symbol = symbolOf(m);
   const ruleLine = single
-    ? `λ = ${num(m.choice.lambda)}, the only value tried${
-      m.choice.lambda === 0 ? " (no penalty)" : ""
+    ? `${symbol} = ${num(st.chosen)}, the only value tried${
+      st.chosen === 0 ? " (no penalty)" : ""
     }; no rule was needed.`
-    : `λ = ${num(m.choice.lambda)}, chosen by the rule ${m.choice.definition}. The smallest ` +
+    : `${symbol} = ${num(st.chosen)}, chosen by the rule ${m.choice.definition}. The smallest ` +
       `mean CV error, ${num(m.cv.cvMean[min])} ± ${num(m.cv.cvSe[min])}, is at ` +
-      `λ = ${num(m.choice.minimum.lambda)}.`;
+      `${symbol} = ${num(st.minimum)}.`;
   const headline: Inline[] = record.comparison
     ? [
       "Chosen: ",
       { strong: record.comparison.best },
-      `, the candidate with the lowest mean CV error at its chosen λ; ${ruleLine}`,
+      `, the candidate with the lowest mean CV error at its chosen ${
+        symbolsOf(record)
+      }; ${ruleLine}`,
     ]
     : [`Chosen: ${ruleLine}`];
   const notes = record.models.flatMap((x) =>
     x.choice.notes.map((n) => (record.comparison ? `${modelLabel(x, record.target)}: ${n}` : n))
   );
-  const f = m.final;
   return [
     { kind: "heading", level: 2, text: "Decision" },
     { kind: "paragraph", parts: headline },
@@ -483,18 +538,27 @@ export function decisionBlocks(record: ModelChoiceRecord): Block[] {
       ? [{ kind: "list" as const, items: record.comparison.verdict.map((v) => [v]) }]
       : []),
     ...(notes.length > 0 ? [{ kind: "list" as const, items: notes.map((n) => [n]) }] : []),
-    {
-      kind: "paragraph",
-      parts: [
-        `Final model, refit on all ${f.n} rows at λ = ${num(f.lambda)}: effective degrees of ` +
-        `freedom ${num(f.df)}, training MSE ${num(f.trainMse)}, residual SD ${
-          num(f.residualSd)
-        }, ` +
-        `penalty budget C = ${num(f.budget)}, condition number ${num(f.condition)}.`,
-      ],
-    },
+    { kind: "paragraph", parts: [finalSentence(m)] },
     { kind: "table", table: coefficientTable(m.final), digits: 6 },
   ];
+}
+
+/** The final model in one sentence: its strength, size, fit and solver report. */
+function finalSentence(m: ModelSection): string {
+  if (isSparseModel(m)) {
+    const f = m.final;
+    const d = f.descent;
+    return `Final model, the coordinate-descent solution on all ${f.n} rows at ` +
+      `α = ${num(f.alpha)}: ${f.nonzero} of ${f.names.length} coefficients nonzero, training ` +
+      `MSE ${num(f.trainMse)}, residual SD ${num(f.residualSd)}, penalty value ` +
+      `${num(f.penaltyValue)}; scaled KKT violation ${num(d.violation)} (tolerance ` +
+      `${num(m.penalty.tolerance)}${d.converged ? "" : ", not met"}), duality gap ` +
+      `${num(d.gap)} per row, ${d.passes} coordinate passes.`;
+  }
+  const f = m.final;
+  return `Final model, refit on all ${f.n} rows at λ = ${num(f.lambda)}: effective degrees of ` +
+    `freedom ${num(f.df)}, training MSE ${num(f.trainMse)}, residual SD ${num(f.residualSd)}, ` +
+    `penalty budget C = ${num(f.budget)}, condition number ${num(f.condition)}.`;
 }
 
 /**
@@ -598,7 +662,10 @@ export function reproduceBlocks(record: ModelChoiceRecord, options: SectionOptio
       parts: [
         `Folds: ${describeFolds(f)}; fold assignment SHA-256 `,
         { code: f.assignmentSha256 },
-        ". Objective of every model (γ_q per candidate as listed above):",
+        record.models.some(isSparseModel)
+          ? ". Objective statements every model shares (each model's full objective is in " +
+            "the record, models[i].objective):"
+          : ". Objective of every model (γ_q per candidate as listed above):",
       ],
     },
     { kind: "code", lines: objective },

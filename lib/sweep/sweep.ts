@@ -293,7 +293,7 @@ export function* sweepPrepared(
     chosen,
     notes: edgeNotes(minimum, grid.length, scale, scale === "alpha" ? spec.alphas : spec.lambdas),
     fit: model,
-    provenance: sweepProvenance(data, spec.lambdas),
+    provenance: sweepProvenance(data, spec.lambdas, spec.alphas),
   }, sweepBundle));
 }
 

@@ -23,7 +23,14 @@ import type { ComparisonResult } from "../sweep/compare.ts";
 import type { SweepResult } from "../sweep/sweep.ts";
 import type { ScaleSweepResult } from "../stream/finish.ts";
 import type { Table } from "../table/types.ts";
-import type { FoldsSection, ModelChoiceRecord, ModelSection } from "../record/schema.ts";
+import {
+  type FoldsSection,
+  isSparseModel,
+  type ModelChoiceRecord,
+  type ModelSection,
+  modelStrengths,
+  standingStrength,
+} from "../record/schema.ts";
 import type { VerifyReport } from "../record/report.ts";
 import { isSparse, type Penalty, type StrengthScale, strengthSymbol } from "../fit/penalty.ts";
 import { makeBundle, type MimeBundle } from "./bundle.ts";
@@ -432,31 +439,29 @@ export function recordCurveSource(
   record: { readonly target: string; readonly folds: FoldsSection },
 ): CurveSource & { readonly names: readonly string[] } {
   const cv = model.cv;
+  const st = modelStrengths(model);
+  const ridge = isSparseModel(model) ? null : model.cv;
   return {
     target: record.target,
     n: model.final.n,
     names: model.final.names,
     folds: record.folds,
     notes: model.choice.notes,
-    scale: "lambda",
-    minimum: {
-      rule: "min",
-      index: model.choice.minimum.index,
-      strength: model.choice.minimum.lambda,
-    },
-    chosen: { rule: model.choice.rule, index: model.choice.index, strength: model.choice.lambda },
-    curve: cv.lambda.map((lambda, l) => ({
-      strength: lambda,
+    scale: st.scale,
+    minimum: { rule: "min", index: model.choice.minimum.index, strength: st.minimum },
+    chosen: { rule: model.choice.rule, index: model.choice.index, strength: st.chosen },
+    curve: st.grid.map((strength, l) => ({
+      strength,
       cvMean: cv.cvMean[l],
       cvSe: cv.cvSe[l],
       foldMse: cv.foldMse[l],
       trainMse: cv.trainMse[l],
       foldTrainMse: cv.foldTrainMse[l],
-      df: cv.df[l],
-      budget: cv.budget[l],
+      df: st.size[l],
+      budget: st.measure[l],
       nonzero: cv.path[l].filter((w) => w !== 0).length,
-      gcv: cv.gcv[l],
-      loo: cv.loo === null ? null : cv.loo[l],
+      gcv: ridge === null ? null : ridge.gcv[l],
+      loo: ridge?.loo == null ? null : ridge.loo[l],
       path: cv.path[l],
     })),
   };
@@ -484,9 +489,12 @@ export function recordComparisonSource(record: ModelChoiceRecord): ComparisonSou
     target: record.target,
     folds: record.folds,
     best: comparison.best,
-    candidates: comparison.candidates.map(({ lambda, ...c }, i) => ({
-      ...c,
-      strength: lambda,
+    candidates: comparison.candidates.map((c, i) => ({
+      name: c.name,
+      cvMean: c.cvMean,
+      cvSe: c.cvSe,
+      versusBest: c.versusBest,
+      strength: standingStrength(c),
       sweep: recordCurveSource(record.models[i], record),
     })),
   };
@@ -514,10 +522,13 @@ export function recordBundle(record: ModelChoiceRecord): Promise<ShownBundle> {
     m.name ?? record.target,
     m.terms.map((t) => t.label).join(" + "),
     m.choice.rule,
-    m.choice.lambda,
+    modelStrengths(m).chosen,
     m.cv.cvMean[m.choice.index],
-    m.final.df,
+    modelStrengths(m).finalSize,
   ]);
+  const scales = new Set(record.models.map((m) => modelStrengths(m).scale));
+  const chosenHeader = `chosen ${[...scales].map(strengthSymbol).join(" / ")}`;
+  const sizeHeader = [...scales].map((x) => (x === "alpha" ? "nonzero" : "df")).join(" / ");
   const t = texts([
     `${record.schema} (${record.kind}) for target ${record.target}; written by ${record.software.library} ${record.software.version} on ${record.software.runtime} ${record.software.runtimeVersion}` +
     (record.created === null ? "." : `, ${record.created}.`),
@@ -525,7 +536,7 @@ export function recordBundle(record: ModelChoiceRecord): Promise<ShownBundle> {
     `Folds: ${foldWords(f)} (${f.scheme}${
       f.prng ? `, ${f.prng}` : ""
     }); assignment SHA-256 ${f.assignmentSha256}.`,
-    { header: ["model", "terms", "rule", "chosen λ", "CV error", "df"], rows: models },
+    { header: ["model", "terms", "rule", chosenHeader, "CV error", sizeHeader], rows: models },
     ...(record.comparison ? [record.comparison.verdict.join("\n")] : []),
     record.cautions.join("\n"),
     "Replay it with verify(record, data); save it with recordJson(record).",
