@@ -86,17 +86,47 @@ export function buildDesign(
   const block = { n, p, hi: new Float64Array(n * p), lo: new Float64Array(n * p) };
   const termIndex = new Int32Array(p);
   const orders: number[] = [];
-  const outside: OutsideCount[] = [];
   let offset = 0;
   learned.forEach((term, t) => {
-    const count = term.apply(table, rows, block, offset);
-    outside.push({ label: term.term.label, count });
     termIndex.fill(t, offset, offset + term.names.length);
     orders.push(...term.orders);
     offset += term.names.length;
   });
+  // Every term writes one block of rows at a time, so the rows being written stay in cache
+  // (a term's columns are strided across the row-major block).
+  const selected = rows ?? allRows(n);
+  const counts = new Array<number>(learned.length).fill(0);
+  for (let start = 0; start < n; start += BUILD_ROWS) {
+    const end = Math.min(n, start + BUILD_ROWS);
+    const part = {
+      n: end - start,
+      p,
+      hi: block.hi.subarray(start * p, end * p),
+      lo: block.lo.subarray(start * p, end * p),
+    };
+    const partRows = selected.subarray(start, end);
+    offset = 0;
+    learned.forEach((term, t) => {
+      counts[t] += term.apply(table, partRows, part, offset);
+      offset += term.names.length;
+    });
+  }
+  const outside: OutsideCount[] = learned.map((term, t) => ({
+    label: term.term.label,
+    count: counts[t],
+  }));
   checkFinite(block, names, table, rows);
   return { n, p, names, orders, termIndex, block, outside };
+}
+
+/** Rows written per block by `buildDesign`. */
+const BUILD_ROWS = 1024;
+
+/** The row indices 0 … n − 1. */
+function allRows(n: number): Int32Array {
+  const rows = new Int32Array(n);
+  for (let i = 0; i < n; i++) rows[i] = i;
+  return rows;
 }
 
 /** All output names in order, or an error naming the first repeated one and its two terms. */

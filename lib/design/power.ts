@@ -7,7 +7,7 @@
  *
  * @module
  */
-import { ddMul } from "../numeric/dd.ts";
+import { productError, splitHigh } from "../numeric/dd.ts";
 import type { Table } from "../table/types.ts";
 import {
   checkBlock,
@@ -119,14 +119,24 @@ function powersTerm(kind: TermKind, label: string, name: string, degree: number,
   return term;
 }
 
-/** Writes x^1 … x^degree in double-double at block position `start`. */
+/**
+ * Writes x^1 … x^degree in double-double at block position `start`: each step is the
+ * double-double product (hi + lo)·x (TwoProduct of hi and x, plus lo·x, renormalized), with the
+ * split of x taken once.
+ */
 function writePowers(x: number, degree: number, block: DesignBlock, start: number): void {
   let hi = x;
   let lo = 0;
   block.hi[start] = hi;
   block.lo[start] = lo;
+  const xHi = splitHigh(x);
+  const xLo = x - xHi;
   for (let k = 1; k < degree; k++) {
-    [hi, lo] = ddMul(hi, lo, x, 0);
+    const prod = hi * x;
+    const hHi = splitHigh(hi);
+    const e = productError(prod, hHi, hi - hHi, xHi, xLo) + (hi * 0 + lo * x);
+    hi = prod + e;
+    lo = e - (hi - prod);
     block.hi[start + k] = hi;
     block.lo[start + k] = lo;
   }

@@ -5,7 +5,7 @@
  *
  * @module
  */
-import { DDAccumulator } from "../numeric/dd.ts";
+import { productError, splitHigh, sumError } from "../numeric/dd.ts";
 import type { DesignBlock } from "../design/types.ts";
 
 /** Means and SDs of each design column. */
@@ -26,20 +26,36 @@ export interface ColumnScales {
  */
 export function columnScales(block: DesignBlock): ColumnScales {
   const { n, p, hi, lo } = block;
-  const means = new Float64Array(p);
-  const sds = new Float64Array(p);
-  const acc = new DDAccumulator();
-  for (let q = 0; q < p; q++) {
-    acc.reset();
-    for (let i = 0; i < n; i++) acc.addDD(hi[i * p + q], lo[i * p + q]);
-    const mean = acc.value() / n;
-    acc.reset();
-    for (let i = 0; i < n; i++) {
-      const d = (hi[i * p + q] - mean) + lo[i * p + q];
-      acc.addProduct(d, d);
+  // One compensated sum per column (leading parts in sumHi, trailing in sumLo), updated row by
+  // row so the row-major block is read in order: the operations of one DDAccumulator per column.
+  const sumHi = new Float64Array(p);
+  const sumLo = new Float64Array(p);
+  for (let i = 0; i < n; i++) {
+    const row = i * p;
+    for (let q = 0; q < p; q++) {
+      const a = hi[row + q];
+      const s = sumHi[q] + a;
+      const l = sumLo[q] + sumError(sumHi[q], a, s);
+      sumLo[q] = l + lo[row + q];
+      sumHi[q] = s;
     }
-    means[q] = mean;
-    sds[q] = Math.sqrt(acc.value() / n);
   }
+  const means = sumHi.map((h, q) => (h + sumLo[q]) / n);
+  sumHi.fill(0);
+  sumLo.fill(0);
+  for (let i = 0; i < n; i++) {
+    const row = i * p;
+    for (let q = 0; q < p; q++) {
+      const d = (hi[row + q] - means[q]) + lo[row + q];
+      const sq = d * d;
+      const dHi = splitHigh(d);
+      const s = sumHi[q] + sq;
+      let l = sumLo[q] + sumError(sumHi[q], sq, s);
+      l += productError(sq, dHi, d - dHi, dHi, d - dHi);
+      sumHi[q] = s;
+      sumLo[q] = l;
+    }
+  }
+  const sds = sumHi.map((h, q) => Math.sqrt((h + sumLo[q]) / n));
   return { means, sds };
 }

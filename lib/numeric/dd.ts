@@ -16,25 +16,70 @@ const SPLITTER = 134217729; // 2^27 + 1 (Dekker)
 /** A double-double value as `[hi, lo]`. */
 export type DD = readonly [number, number];
 
+/**
+ * High half of Dekker's split: a = h + (a − h) exactly, with h and a − h of at most 26
+ * significant bits each, so products of halves are exact.
+ *
+ * @example
+ * ```ts
+ * import { splitHigh } from "./dd.ts";
+ * const a = 0.1;
+ * const h = splitHigh(a);
+ * console.log(h + (a - h) === a); // true
+ * ```
+ */
+export function splitHigh(a: number): number {
+  const t = SPLITTER * a;
+  return t - (t - a);
+}
+
+/**
+ * The rounding error of p = fl(a·b) from the split halves of a and b (a = aHi + aLo,
+ * b = bHi + bLo, from `splitHigh`): a·b = p + productError(…) exactly (Dekker's TwoProduct).
+ *
+ * @example
+ * ```ts
+ * import { productError, splitHigh } from "./dd.ts";
+ * const a = 0.1, b = 0.3, ah = splitHigh(a), bh = splitHigh(b);
+ * console.log(productError(a * b, ah, a - ah, bh, b - bh)); // about 1.7e-18
+ * ```
+ */
+export function productError(
+  p: number,
+  aHi: number,
+  aLo: number,
+  bHi: number,
+  bLo: number,
+): number {
+  return ((aHi * bHi - p) + aHi * bLo + aLo * bHi) + aLo * bLo;
+}
+
+/**
+ * The rounding error of s = fl(a + b): a + b = s + sumError(a, b, s) exactly (Knuth's TwoSum).
+ *
+ * @example
+ * ```ts
+ * import { sumError } from "./dd.ts";
+ * console.log(sumError(1, 2 ** -60, 1 + 2 ** -60)); // 8.673617379884035e-19
+ * ```
+ */
+export function sumError(a: number, b: number, s: number): number {
+  const bb = s - a;
+  return (a - (s - bb)) + (b - bb);
+}
+
 /** Error-free sum: a + b = s + e exactly. */
 export function twoSum(a: number, b: number): DD {
   const s = a + b;
-  const bb = s - a;
-  const e = (a - (s - bb)) + (b - bb);
-  return [s, e];
+  return [s, sumError(a, b, s)];
 }
 
 /** Error-free product: a * b = p + e exactly (barring overflow), by Dekker's split. */
 export function twoProduct(a: number, b: number): DD {
   const p = a * b;
-  let t = SPLITTER * a;
-  const ah = t - (t - a);
-  const al = a - ah;
-  t = SPLITTER * b;
-  const bh = t - (t - b);
-  const bl = b - bh;
-  const e = ((ah * bh - p) + ah * bl + al * bh) + al * bl;
-  return [p, e];
+  const ah = splitHigh(a);
+  const bh = splitHigh(b);
+  return [p, productError(p, ah, a - ah, bh, b - bh)];
 }
 
 /** Product of two double-double values, rounded to double-double. */
@@ -73,9 +118,7 @@ export class DDAccumulator {
   /** Adds a double. */
   add(a: number): void {
     const s = this.hi + a;
-    const bb = s - this.hi;
-    const e = (this.hi - (s - bb)) + (a - bb);
-    this.lo += e;
+    this.lo += sumError(this.hi, a, s);
     this.hi = s;
   }
 
@@ -88,15 +131,10 @@ export class DDAccumulator {
   /** Adds the exact product a * b. */
   addProduct(a: number, b: number): void {
     const p = a * b;
-    let t = SPLITTER * a;
-    const ah = t - (t - a);
-    const al = a - ah;
-    t = SPLITTER * b;
-    const bh = t - (t - b);
-    const bl = b - bh;
-    const e = ((ah * bh - p) + ah * bl + al * bh) + al * bl;
+    const ah = splitHigh(a);
+    const bh = splitHigh(b);
     this.add(p);
-    this.lo += e;
+    this.lo += productError(p, ah, a - ah, bh, b - bh);
   }
 
   /** Adds (aHi + aLo) * b, with the aLo * b term in plain double (its error is far below lo). */

@@ -25,7 +25,7 @@ import {
   solveR,
   solveRt,
 } from "../numeric/qr.ts";
-import { DDAccumulator } from "../numeric/dd.ts";
+import { DDAccumulator, productError, splitHigh, sumError } from "../numeric/dd.ts";
 import type { DesignBlock } from "../design/types.ts";
 import type { Triangular } from "./spectral.ts";
 
@@ -66,10 +66,19 @@ export interface DataFactor {
   readonly qr: HouseholderQR;
   /** Power-of-two scale of each factored column (1 for the intercept). */
   readonly scale: Float64Array;
+  /** Per design column: 1 when any of its lo parts is nonzero (see `columnsWithLo`). */
+  readonly withLo: Uint8Array;
 }
 
 const MAX_STEPS = 40;
-const CONVERGED = 2 ** -60;
+/**
+ * Converged when the correction is at most 2⁻⁵⁴ of max |x|: below half an ulp of the largest
+ * component, so further steps only move the last bits (on the NIST StRD sets they then flip
+ * one ulp back and forth). Stricter thresholds cost a step without changing any LRE.
+ */
+const CONVERGED = 2 ** -54;
+/** Rows per block when transposing the design (a block of p doubles per row stays in cache). */
+const TRANSPOSE_ROWS = 256;
 
 /**
  * Factors the data rows of a design once (one copy, one QR).
@@ -87,16 +96,26 @@ export function factorData(block: DesignBlock, intercept: boolean): DataFactor {
   const scale = new Float64Array(off + p).fill(1);
   const maxAbs = new Float64Array(p);
   for (let i = 0; i < n; i++) {
-    for (let q = 0; q < p; q++) maxAbs[q] = Math.max(maxAbs[q], Math.abs(hi[i * p + q]));
+    const row = i * p;
+    for (let q = 0; q < p; q++) {
+      const v = Math.abs(hi[row + q]);
+      if (v > maxAbs[q]) maxAbs[q] = v;
+    }
   }
   maxAbs.forEach((m, q) => (scale[off + q] = m > 0 ? 2 ** -Math.floor(Math.log2(m)) : 1));
   const cols = Array.from({ length: off + p }, () => new Float64Array(n));
   if (intercept) cols[0].fill(1);
-  for (let i = 0; i < n; i++) {
-    const row = i * p;
-    for (let q = 0; q < p; q++) cols[off + q][i] = hi[row + q] * scale[off + q];
+  // Transpose in blocks of rows, so each block of the row-major design is read from cache.
+  for (let start = 0; start < n; start += TRANSPOSE_ROWS) {
+    const end = Math.min(n, start + TRANSPOSE_ROWS);
+    for (let q = 0; q < p; q++) {
+      const col = cols[off + q];
+      const sq = scale[off + q];
+      for (let i = start; i < end; i++) col[i] = hi[i * p + q] * sq;
+    }
   }
-  return { n, p, intercept, qr: householderQR(cols, n), scale };
+  const withLo = columnsWithLo(block);
+  return { n, p, intercept, qr: householderQR(cols, n), scale, withLo };
 }
 
 /**
@@ -147,19 +166,24 @@ export function solveRefined(problem: LsProblem, factor?: DataFactor): LsSolutio
   const m = n + ortho.penaltyRows;
   const x = new Float64Array(nc);
   const r = new Float64Array(m);
+  // Work vectors of length m, reused by every step.
+  const f = new Float64Array(m);
+  const qtf = new Float64Array(m);
+  const dr = new Float64Array(m);
+  const sums = { hi: new Float64Array(nc), lo: new Float64Array(nc), intercept: problem.intercept };
   let steps = 0;
   let last = Infinity;
   for (; steps < MAX_STEPS; steps++) {
-    const f = residualF(problem, data, ortho, x, r);
-    const g = residualG(problem, data, ortho, r);
+    residualF(problem, data, ortho, x, r, f, sums);
+    const g = residualG(problem, data, ortho, r, sums);
     // Solve [I A; Aᵀ 0][δr; δx] = [f; g] with A = Q[R; 0] (Björck 1967).
     const h = ortho.solveRt(g);
-    const qtf = ortho.qt(f);
+    ortho.qt(f, qtf);
     const d1h = new Float64Array(nc);
     for (let j = 0; j < nc; j++) d1h[j] = qtf[j] - h[j];
     const dx = ortho.solveR(d1h);
     qtf.set(h);
-    const dr = ortho.q(qtf);
+    ortho.q(qtf, dr);
     let dxMax = 0, xMax = 0;
     for (let j = 0; j < nc; j++) {
       x[j] += dx[j];
@@ -182,31 +206,53 @@ export function solveRefined(problem: LsProblem, factor?: DataFactor): LsSolutio
   return {
     intercept,
     w,
-    rss: residualSumOfSquares(problem, intercept, w),
+    rss: residualSumOfSquares(problem, intercept, w, data.withLo),
     iterations: steps,
     lastCorrection: last,
   };
 }
 
-/** Σ (yᵢ − b − zᵢᵀw)² with each residual formed in double-double. */
+/**
+ * Σ (yᵢ − b − zᵢᵀw)² with each residual formed in double-double. `withLo` flags the design
+ * columns whose lo parts are not all zero (computed from the block when omitted).
+ *
+ * @example
+ * ```ts
+ * import { residualSumOfSquares } from "./exact.ts";
+ * const block = { n: 2, p: 1, hi: Float64Array.of(1, 2), lo: new Float64Array(2), y: Float64Array.of(1, 1) };
+ * console.log(residualSumOfSquares(block, 0, Float64Array.of(1))); // 1
+ * ```
+ */
 export function residualSumOfSquares(
   problem: Pick<LsProblem, "n" | "p" | "hi" | "lo" | "y">,
   intercept: number,
   w: Float64Array,
+  withLo: Uint8Array = columnsWithLo(problem),
 ): number {
-  const { n, p, hi, lo, y } = problem;
-  const acc = new DDAccumulator();
+  const e = new Float64Array(problem.n);
+  dataResiduals(problem, withLo, intercept, w, undefined, e);
   const sum = new DDAccumulator();
-  for (let i = 0; i < n; i++) {
-    acc.reset();
-    acc.add(y[i]);
-    acc.add(-intercept);
-    const row = i * p;
-    for (let j = 0; j < p; j++) acc.addDDProduct(-hi[row + j], -lo[row + j], w[j]);
-    const e = acc.value();
-    sum.addProduct(e, e);
-  }
+  for (let i = 0; i < e.length; i++) sum.addProduct(e[i], e[i]);
   return sum.value();
+}
+
+/**
+ * Flags (1) the columns of a design block whose lo parts are not all zero.
+ *
+ * @example
+ * ```ts
+ * import { columnsWithLo } from "./exact.ts";
+ * console.log(columnsWithLo({ n: 1, p: 2, hi: Float64Array.of(0.1, 0.01), lo: Float64Array.of(0, 1e-19) })); // Uint8Array(2) [ 0, 1 ]
+ * ```
+ */
+export function columnsWithLo(block: DesignBlock): Uint8Array {
+  const { n, p, lo } = block;
+  const flags = new Uint8Array(p);
+  for (let i = 0; i < n; i++) {
+    const row = i * p;
+    for (let q = 0; q < p; q++) if (lo[row + q] !== 0) flags[q] = 1;
+  }
+  return flags;
 }
 
 /**
@@ -218,8 +264,10 @@ interface AugmentedFactor {
   readonly penaltyRows: number;
   /** Penalty row value of factored column j (scaled units), 0 for the intercept. */
   readonly penalty: Float64Array;
-  qt(v: Float64Array): Float64Array;
-  q(v: Float64Array): Float64Array;
+  /** out ← Qᵀ v (both of length n + penaltyRows, distinct). */
+  qt(v: Float64Array, out: Float64Array): void;
+  /** out ← Q v (both of length n + penaltyRows, distinct). */
+  q(v: Float64Array, out: Float64Array): void;
   solveR(b: Float64Array): Float64Array;
   solveRt(b: Float64Array): Float64Array;
 }
@@ -242,89 +290,161 @@ function augmentedFactor(data: DataFactor, root: Float64Array | undefined): Augm
     nc + rows,
   );
   const mid = nc + rows;
+  const work = new Float64Array(n);
+  const head = new Float64Array(mid);
   return {
     penaltyRows: rows,
     penalty,
-    qt(v) {
-      const data0 = v.slice(0, n);
-      applyQt(qr, data0);
-      const out = new Float64Array(n + rows);
-      out.set(data0.subarray(0, nc));
+    qt(v, out) {
+      work.set(v.subarray(0, n));
+      applyQt(qr, work);
+      out.set(work.subarray(0, nc));
       out.set(v.subarray(n, n + rows), nc);
-      applyQt(small, out.subarray(0, mid) as Float64Array);
-      out.set(data0.subarray(nc), mid);
-      return out;
+      applyQt(small, out.subarray(0, mid));
+      out.set(work.subarray(nc), mid);
     },
-    q(v) {
-      const head = v.slice(0, mid);
+    q(v, out) {
+      head.set(v.subarray(0, mid));
       applyQ(small, head);
-      const data0 = new Float64Array(n);
-      data0.set(head.subarray(0, nc));
-      data0.set(v.subarray(mid), nc);
-      applyQ(qr, data0);
-      const out = new Float64Array(n + rows);
-      out.set(data0);
+      work.set(head.subarray(0, nc));
+      work.set(v.subarray(mid), nc);
+      applyQ(qr, work);
+      out.set(work);
       out.set(head.subarray(nc), n);
-      return out;
     },
     solveR: (b) => solveR(small, b),
     solveRt: (b) => solveRt(small, b),
   };
 }
 
-/** f = b − r − A x in double-double (data rows from the row-major design, then penalty rows). */
+/**
+ * f ← b − r − A x in double-double (data rows from the row-major design, then penalty rows),
+ * and, in the same pass over the design, the data rows' part of Aᵀr into `sums`.
+ */
 function residualF(
   problem: LsProblem,
   data: DataFactor,
   ortho: AugmentedFactor,
   x: Float64Array,
   r: Float64Array,
-): Float64Array {
-  const { n, p, hi, lo, y } = problem;
+  f: Float64Array,
+  sums: ColumnSums,
+): void {
+  const { n } = problem;
   const off = problem.intercept ? 1 : 0;
-  const scaled = Float64Array.from(x, (v, j) => v * data.scale[j]);
-  const f = new Float64Array(n + ortho.penaltyRows);
+  const w = Float64Array.from(x.subarray(off), (v, q) => v * data.scale[off + q]);
+  dataResiduals(problem, data.withLo, off ? x[0] : 0, w, r, f, sums);
   const acc = new DDAccumulator();
-  for (let i = 0; i < n; i++) {
-    acc.reset();
-    acc.add(y[i]);
-    acc.add(-r[i]);
-    if (off) acc.add(-x[0]);
-    const row = i * p;
-    for (let q = 0; q < p; q++) acc.addDDProduct(-hi[row + q], -lo[row + q], scaled[off + q]);
-    f[i] = acc.value();
-  }
   for (let q = 0; q < ortho.penaltyRows; q++) {
     acc.reset();
     acc.add(-r[n + q]);
     acc.addProduct(-ortho.penalty[off + q], x[off + q]);
     f[n + q] = acc.value();
   }
-  return f;
 }
 
-/** g = −Aᵀ r in double-double, reading the row-major design once. */
+/**
+ * Compensated column sums of Aᵀr: leading parts in `hi`, trailing in `lo`, one per factored
+ * column (the intercept's first when there is one).
+ */
+interface ColumnSums {
+  readonly hi: Float64Array;
+  readonly lo: Float64Array;
+  readonly intercept: boolean;
+}
+
+/**
+ * out[i] = yᵢ − rᵢ − b − Σ_q (hi + lo)_iq w_q for the data rows, each formed in double-double
+ * with the operations of one `DDAccumulator` per row, inlined: the split of each w_q is taken
+ * once, and lo parts are read only for the columns flagged in `withLo`. When `sums` is given
+ * (with r), it is reset to Σᵢ rᵢ and Σᵢ (hi + lo)_iq rᵢ in the same pass, with the operations
+ * of one `DDAccumulator` per column and the split of each design value shared.
+ */
+function dataResiduals(
+  problem: Pick<LsProblem, "n" | "p" | "hi" | "lo" | "y">,
+  withLo: Uint8Array,
+  intercept: number,
+  w: Float64Array,
+  r: Float64Array | undefined,
+  out: Float64Array,
+  sums?: ColumnSums,
+): void {
+  const { n, p, hi, lo, y } = problem;
+  const wHi = w.map(splitHigh);
+  const wLo = w.map((v, q) => v - wHi[q]);
+  const sumHi = sums?.hi ?? new Float64Array(0);
+  const sumLo = sums?.lo ?? new Float64Array(0);
+  const off = sums?.intercept ? 1 : 0;
+  const gradient = sums !== undefined && r !== undefined;
+  sumHi.fill(0);
+  sumLo.fill(0);
+  for (let i = 0; i < n; i++) {
+    let h = y[i];
+    let l = 0;
+    let s: number;
+    const ri = r === undefined ? 0 : r[i];
+    if (r !== undefined) {
+      s = h - ri;
+      l += sumError(h, -ri, s);
+      h = s;
+    }
+    s = h - intercept;
+    l += sumError(h, -intercept, s);
+    h = s;
+    const rHi = splitHigh(ri);
+    const rLo = ri - rHi;
+    if (gradient && off) {
+      const t = sumHi[0] + ri;
+      sumLo[0] += sumError(sumHi[0], ri, t);
+      sumHi[0] = t;
+    }
+    const row = i * p;
+    for (let q = 0; q < p; q++) {
+      const v = hi[row + q];
+      const vHi = splitHigh(v);
+      const vLo = v - vHi;
+      // f: the product (−v)·w_q; the split of −v is the negated split of v.
+      const prod = -v * w[q];
+      s = h + prod;
+      l += sumError(h, prod, s);
+      h = s;
+      l += productError(prod, -vHi, -vLo, wHi[q], wLo[q]);
+      if (withLo[q] === 1) l += -lo[row + q] * w[q];
+      if (gradient) {
+        const gp = v * ri;
+        const gh = sumHi[off + q];
+        const t = gh + gp;
+        let gl = sumLo[off + q] + sumError(gh, gp, t);
+        gl += productError(gp, vHi, vLo, rHi, rLo);
+        if (withLo[q] === 1) gl += lo[row + q] * ri;
+        sumHi[off + q] = t;
+        sumLo[off + q] = gl;
+      }
+    }
+    out[i] = h + l;
+  }
+}
+
+/** g = −Aᵀ r in double-double from the data rows' column sums and the penalty rows. */
 function residualG(
   problem: LsProblem,
   data: DataFactor,
   ortho: AugmentedFactor,
   r: Float64Array,
+  sums: ColumnSums,
 ): Float64Array {
-  const { n, p, hi, lo } = problem;
+  const { n } = problem;
   const off = problem.intercept ? 1 : 0;
-  const nc = off + p;
-  const sums = Array.from({ length: nc }, () => new DDAccumulator());
-  for (let i = 0; i < n; i++) {
-    const ri = r[i];
-    if (off) sums[0].add(ri);
-    const row = i * p;
-    for (let q = 0; q < p; q++) sums[off + q].addDDProduct(hi[row + q], lo[row + q], ri);
-  }
+  const sumLo = sums.lo;
   // Column j of the scaled matrix is the design column times scale[j], an exact power of two, so
   // the penalty entry divided by it is exactly c_q.
-  for (let q = 0; q < ortho.penaltyRows; q++) {
-    const j = off + q;
-    sums[j].addProduct(ortho.penalty[j] / data.scale[j], r[n + q]);
-  }
-  return Float64Array.from(sums, (s, j) => -s.value() * data.scale[j]);
+  const acc = new DDAccumulator();
+  return Float64Array.from(sums.hi, (h, j) => {
+    acc.hi = h;
+    acc.lo = sumLo[j];
+    if (j >= off && j - off < ortho.penaltyRows) {
+      acc.addProduct(ortho.penalty[j] / data.scale[j], r[n + j - off]);
+    }
+    return -acc.value() * data.scale[j];
+  });
 }
