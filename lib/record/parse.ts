@@ -363,25 +363,13 @@ function sparseFinal(v: unknown, path: string): SparseModelSection["final"] {
     "condition",
     "descent",
   ]);
-  const s = fields(o.standardized, `${path}.standardized`, ["intercept", "coefficients"]);
   const d = fields(o.descent, `${path}.descent`, ["passes", "converged", "violation", "gap"]);
   return {
     n: whole(o.n, `${path}.n`),
     alpha: num(o.alpha, `${path}.alpha`),
     penaltyValue: num(o.penaltyValue, `${path}.penaltyValue`),
     nonzero: whole(o.nonzero, `${path}.nonzero`),
-    names: list(o.names, `${path}.names`, text),
-    intercept: num(o.intercept, `${path}.intercept`),
-    coefficients: list(o.coefficients, `${path}.coefficients`, num),
-    standardized: {
-      intercept: num(s.intercept, `${path}.standardized.intercept`),
-      coefficients: list(s.coefficients, `${path}.standardized.coefficients`, num),
-    },
-    means: list(o.means, `${path}.means`, num),
-    sds: list(o.sds, `${path}.sds`, num),
-    trainMse: num(o.trainMse, `${path}.trainMse`),
-    residualSd: num(o.residualSd, `${path}.residualSd`),
-    condition: num(o.condition, `${path}.condition`),
+    ...finalNumbers(o, path),
     descent: {
       passes: whole(d.passes, `${path}.descent.passes`),
       converged: flag(d.converged, `${path}.descent.converged`),
@@ -495,12 +483,20 @@ function final(v: unknown, path: string): FinalSection {
     "condition",
     "refinementSteps",
   ]);
-  const s = fields(o.standardized, `${path}.standardized`, ["intercept", "coefficients"]);
   return {
     n: whole(o.n, `${path}.n`),
     lambda: num(o.lambda, `${path}.lambda`),
     budget: num(o.budget, `${path}.budget`),
     df: num(o.df, `${path}.df`),
+    ...finalNumbers(o, path),
+    refinementSteps: whole(o.refinementSteps, `${path}.refinementSteps`),
+  };
+}
+
+/** The fields every final-model section shares, in record order. */
+function finalNumbers(o: Record<string, unknown>, path: string) {
+  const s = fields(o.standardized, `${path}.standardized`, ["intercept", "coefficients"]);
+  return {
     names: list(o.names, `${path}.names`, text),
     intercept: num(o.intercept, `${path}.intercept`),
     coefficients: list(o.coefficients, `${path}.coefficients`, num),
@@ -513,7 +509,6 @@ function final(v: unknown, path: string): FinalSection {
     trainMse: num(o.trainMse, `${path}.trainMse`),
     residualSd: num(o.residualSd, `${path}.residualSd`),
     condition: num(o.condition, `${path}.condition`),
-    refinementSteps: whole(o.refinementSteps, `${path}.refinementSteps`),
   };
 }
 
