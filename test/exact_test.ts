@@ -21,7 +21,10 @@ function normalEquationResidual(m: ReturnType<typeof fit>, cols: Record<string, 
   const s = m.summary;
   const y = cols[s.target];
   const theta = [s.intercept, ...s.coefficients];
-  const col = (i: number, j: number) => (j === 0 ? 1 : hi[i * p + j - 1] + lo[i * p + j - 1]);
+  const col = (
+    i: number,
+    j: number,
+  ) => (j === 0 ? 1 : hi[i * p + j - 1] + (lo?.[i * p + j - 1] ?? 0));
   const acc = new DDAccumulator();
   let worst = 0, scale = 0;
   for (let j = 0; j <= p; j++) {

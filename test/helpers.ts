@@ -47,3 +47,33 @@ export function subsetColumns(cols: Record<string, number[]>, rows: ArrayLike<nu
 export function relErr(a: number, b: number): number {
   return Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
 }
+
+/**
+ * Asserts that two plain values have the same shape and equal non-numbers, and that every pair
+ * of numbers agrees to `tolerance` relative (or is equal, NaN included). Names the first path
+ * that differs.
+ */
+export function assertNumbersClose(
+  actual: unknown,
+  expected: unknown,
+  tolerance: number,
+  path = "value",
+): void {
+  if (typeof actual === "number" && typeof expected === "number") {
+    if (Object.is(actual, expected) || relErr(actual, expected) <= tolerance) return;
+    throw new Error(`${path}: ${actual} vs ${expected} (relative ${relErr(actual, expected)})`);
+  }
+  if (typeof actual !== "object" || actual === null || typeof expected !== "object") {
+    if (actual !== expected) throw new Error(`${path}: ${String(actual)} vs ${String(expected)}`);
+    return;
+  }
+  const keys = new Set([...Object.keys(actual), ...Object.keys(expected ?? {})]);
+  for (const key of keys) {
+    assertNumbersClose(
+      (actual as Record<string, unknown>)[key],
+      (expected as Record<string, unknown>)[key],
+      tolerance,
+      `${path}.${key}`,
+    );
+  }
+}

@@ -16,7 +16,7 @@ import {
   sweep,
   tableFromColumns,
 } from "./sweep_imports.ts";
-import { relErr, subsetColumns, syntheticColumns } from "./helpers.ts";
+import { assertNumbersClose, relErr, subsetColumns, syntheticColumns } from "./helpers.ts";
 
 const LAMBDAS = [0.01, 0.3, 5, 100];
 
@@ -145,7 +145,7 @@ Deno.test("GCV equals (RSS/n)/(1 − (df+1)/n)² of the exact fit (Golub, Heath 
   });
 });
 
-Deno.test("the chosen model is the exact refit on all rows at the chosen λ", () => {
+Deno.test("the chosen model is the exact refit on all rows at the chosen λ (to 1e-12)", () => {
   const cols = syntheticColumns(3, 60);
   const terms = [legendre("x", 8)];
   const s = sweep(tableFromColumns(cols), {
@@ -155,7 +155,10 @@ Deno.test("the chosen model is the exact refit on all rows at the chosen λ", ()
     rule: "one-se",
   });
   const direct = fit(tableFromColumns(cols), { target: "y", terms, lambda: s.chosen.strength });
-  assert.deepEqual(s.fit.summary, direct.summary);
+  // Both solve the same problem exactly; the sweep starts from co-moments merged from its folds,
+  // a direct fit from one pass, so df and the condition number may differ in the last bits.
+  assertNumbersClose(s.fit.summary, direct.summary, 1e-12);
+  assert.ok(s.fit.summary.refinementSteps >= 1);
   assert.ok(s.chosen.strength >= s.minimum.strength);
 });
 

@@ -210,7 +210,8 @@ export function rowCount(table: Table, rows: Int32Array | undefined, label: stri
 }
 
 /**
- * Checks that `width` columns starting at `offset` fit in `block` and that the block has `n` rows.
+ * Checks that `width` columns starting at `offset` fit in `block` and that the block has `n` rows
+ * (and trailing parts when the term writes them: `trailing`).
  *
  * @example
  * ```ts
@@ -224,15 +225,18 @@ export function checkBlock(
   offset: number,
   width: number,
   label: string,
+  trailing = false,
 ): void {
+  const lo = block.lo === null ? !trailing : block.lo.length === n * block.p;
   const fits = block.n === n && Number.isInteger(offset) && offset >= 0 &&
-    offset + width <= block.p && block.hi.length === n * block.p && block.lo.length === n * block.p;
+    offset + width <= block.p && block.hi.length === n * block.p && lo;
   if (fits) return;
   throw new CurbfitError(
     "BAD_OPTION",
     `${label}: cannot write ${n} rows × ${width} columns at column ${offset} into a block of ` +
       `${block.n} rows × ${block.p} columns`,
-    "Allocate the block with one row per selected row and room for every term's columns",
+    "Allocate the block with one row per selected row, room for every term's columns, and " +
+      "trailing parts (lo) when a term writes them",
     { option: "block" },
   );
 }

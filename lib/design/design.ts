@@ -83,7 +83,14 @@ export function buildDesign(
   const names = checkUniqueNames(learned);
   const n = rowCount(table, rows, "buildDesign");
   const p = names.length;
-  const block = { n, p, hi: new Float64Array(n * p), lo: new Float64Array(n * p) };
+  // Trailing parts take memory only when some term writes them (powers above 1, products).
+  const trailing = learned.some((term) => term.trailing);
+  const block = {
+    n,
+    p,
+    hi: new Float64Array(n * p),
+    lo: trailing ? new Float64Array(n * p) : null,
+  };
   const termIndex = new Int32Array(p);
   const orders: number[] = [];
   let offset = 0;
@@ -102,7 +109,7 @@ export function buildDesign(
       n: end - start,
       p,
       hi: block.hi.subarray(start * p, end * p),
-      lo: block.lo.subarray(start * p, end * p),
+      lo: block.lo === null ? null : block.lo.subarray(start * p, end * p),
     };
     const partRows = selected.subarray(start, end);
     offset = 0;
@@ -160,8 +167,9 @@ function checkFinite(
   table: Table,
   rows: Int32Array | undefined,
 ): void {
-  for (let k = 0; k < block.hi.length; k++) {
-    if (Number.isFinite(block.hi[k]) && Number.isFinite(block.lo[k])) continue;
+  const { hi, lo } = block;
+  for (let k = 0; k < hi.length; k++) {
+    if (Number.isFinite(hi[k]) && (lo === null || Number.isFinite(lo[k]))) continue;
     const i = Math.floor(k / block.p);
     const r = rows === undefined ? i : rows[i];
     throw new CurbfitError(

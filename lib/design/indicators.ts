@@ -70,6 +70,7 @@ function learnedIndicators(term: Term, name: string, levels: readonly string[]):
     names: levels.slice(1).map((level) => `${name}=${level}`),
     orders: levels.slice(1).map(() => 1),
     params: { levels, reference: levels[0] },
+    trailing: false,
     apply(table, rows, block, offset) {
       const column = categoryColumn(table, name, term.label);
       const n = rowCount(table, rows, term.label);
@@ -81,7 +82,7 @@ function learnedIndicators(term: Term, name: string, levels: readonly string[]):
         if (slot === UNKNOWN) throw unknownLevel(table, column, r, levels, term.label);
         const start = i * block.p + offset;
         block.hi.fill(0, start, start + width);
-        block.lo.fill(0, start, start + width);
+        block.lo?.fill(0, start, start + width);
         if (slot >= 0) block.hi[start + slot] = 1;
       }
       return 0;

@@ -124,6 +124,7 @@ function learnedLegendre(
     names,
     orders,
     params: { domain: [lo, hi] },
+    trailing: false,
     apply(table, rows, block, offset, outside) {
       const values = numericColumn(table, column, term.label).values;
       const n = rowCount(table, rows, term.label);
@@ -137,7 +138,7 @@ function learnedLegendre(
         }
         const start = i * block.p + offset;
         writeLegendre(((x - lo) - (hi - x)) / width, degree, block.hi, start);
-        block.lo.fill(0, start, start + degree);
+        block.lo?.fill(0, start, start + degree);
       }
       return count;
     },

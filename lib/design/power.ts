@@ -98,10 +98,11 @@ function powersTerm(kind: TermKind, label: string, name: string, degree: number,
         names,
         orders,
         params: null,
+        trailing: degree > 1,
         apply(table, rows, block, offset, outside) {
           const values = numericColumn(table, name, label).values;
           const n = rowCount(table, rows, label);
-          checkBlock(block, n, offset, degree, label);
+          checkBlock(block, n, offset, degree, label, degree > 1);
           let count = 0;
           for (let i = 0; i < n; i++) {
             const x = values[rows === undefined ? i : rows[i]];
@@ -122,13 +123,15 @@ function powersTerm(kind: TermKind, label: string, name: string, degree: number,
 /**
  * Writes x^1 … x^degree in double-double at block position `start`: each step is the
  * double-double product (hi + lo)·x (TwoProduct of hi and x, plus lo·x, renormalized), with the
- * split of x taken once.
+ * split of x taken once. The block has trailing parts whenever degree > 1 (checkBlock).
  */
 function writePowers(x: number, degree: number, block: DesignBlock, start: number): void {
   let hi = x;
   let lo = 0;
   block.hi[start] = hi;
-  block.lo[start] = lo;
+  const trailing = block.lo;
+  if (trailing === null) return;
+  trailing[start] = lo;
   const xHi = splitHigh(x);
   const xLo = x - xHi;
   for (let k = 1; k < degree; k++) {
@@ -138,6 +141,6 @@ function writePowers(x: number, degree: number, block: DesignBlock, start: numbe
     hi = prod + e;
     lo = e - (hi - prod);
     block.hi[start + k] = hi;
-    block.lo[start + k] = lo;
+    trailing[start + k] = lo;
   }
 }

@@ -66,12 +66,16 @@ function learnedProduct(term: Term, a: LearnedTerm, b: LearnedTerm): LearnedTerm
     names,
     orders,
     params: { left: a.params, right: b.params },
+    trailing: true,
     apply(table, rows, block, offset, outside) {
       const n = rowCount(table, rows, term.label);
-      checkBlock(block, n, offset, names.length, term.label);
+      checkBlock(block, n, offset, names.length, term.label, true);
       const flags = new Uint8Array(n);
-      const left = sideBlock(n, a.names.length);
-      const right = sideBlock(n, b.names.length);
+      const left = sideBlock(n, a);
+      const right = sideBlock(n, b);
+      const out = block.lo ?? new Float64Array(0); // not null: checkBlock with trailing
+      const { lo: leftLo } = left;
+      const { lo: rightLo } = right;
       a.apply(table, rows, left, 0, flags);
       b.apply(table, rows, right, 0, flags);
       let count = 0;
@@ -83,9 +87,14 @@ function learnedProduct(term: Term, a: LearnedTerm, b: LearnedTerm): LearnedTerm
         let k = r * block.p + offset;
         for (let i = r * left.p; i < (r + 1) * left.p; i++) {
           for (let j = r * right.p; j < (r + 1) * right.p; j++, k++) {
-            const [hi, lo] = ddMul(left.hi[i], left.lo[i], right.hi[j], right.lo[j]);
+            const [hi, lo] = ddMul(
+              left.hi[i],
+              leftLo === null ? 0 : leftLo[i],
+              right.hi[j],
+              rightLo === null ? 0 : rightLo[j],
+            );
             block.hi[k] = hi;
-            block.lo[k] = lo;
+            out[k] = lo;
           }
         }
       }
@@ -94,7 +103,8 @@ function learnedProduct(term: Term, a: LearnedTerm, b: LearnedTerm): LearnedTerm
   };
 }
 
-/** A zeroed n × p scratch block. */
-function sideBlock(n: number, p: number): DesignBlock {
-  return { n, p, hi: new Float64Array(n * p), lo: new Float64Array(n * p) };
+/** A zeroed scratch block for one side's columns (with trailing parts when it writes them). */
+function sideBlock(n: number, side: LearnedTerm): DesignBlock {
+  const p = side.names.length;
+  return { n, p, hi: new Float64Array(n * p), lo: side.trailing ? new Float64Array(n * p) : null };
 }

@@ -43,8 +43,11 @@ export interface DesignBlock {
   readonly p: number;
   /** Leading parts, length n·p, row-major. */
   readonly hi: Float64Array;
-  /** Trailing parts, length n·p, row-major (|lo| ≤ ulp(hi)/2). */
-  readonly lo: Float64Array;
+  /**
+   * Trailing parts, length n·p, row-major (|lo| ≤ ulp(hi)/2); null when every value is exact in
+   * double (no term writes trailing parts), so no memory is spent on zeros.
+   */
+  readonly lo: Float64Array | null;
 }
 
 /**
@@ -113,6 +116,11 @@ export interface LearnedTerm {
    * the outside count (e.g. a plain column's training range) is not part of params.
    */
   readonly params: Json;
+  /**
+   * Whether `apply` writes nonzero trailing parts (`lo`): powers above 1 and products do. A term
+   * without them accepts a block whose `lo` is null (and zeroes its own `lo` entries otherwise).
+   */
+  readonly trailing: boolean;
   /**
    * Writes this term's columns for `rows` (all rows when omitted) into `block`, starting at
    * column `offset` (both `hi` and `lo` are written). Returns how many of those rows lie

@@ -20,8 +20,8 @@ import type { Design, LearnedTerm, Term } from "../design/types.ts";
 import { buildDesign, learnTerms } from "../design/mod.ts";
 import type { Table } from "../table/types.ts";
 import { type ColumnArrays, type RowObjects, toTable } from "../table/mod.ts";
-import { factorData, solveRefined, triangularOf } from "../solve/exact.ts";
-import { degreesOfFreedom, lambdaForBudget, spectralForm } from "../solve/spectral.ts";
+import { degreesOfFreedom, lambdaForBudget } from "../solve/spectral.ts";
+import { type KnownSummaries, solveOn, solverBasis, spectralFormOf } from "./solver.ts";
 import { jacobiSvd } from "../numeric/svd.ts";
 import { DDAccumulator } from "../numeric/dd.ts";
 import {
@@ -164,7 +164,9 @@ export class Fit {
     for (let i = 0; i < n; i++) {
       acc.reset();
       acc.add(this.summary.intercept);
-      for (let q = 0; q < p; q++) acc.addDDProduct(hi[i * p + q], lo[i * p + q], w[q]);
+      for (let q = 0; q < p; q++) {
+        acc.addDDProduct(hi[i * p + q], lo === null ? 0 : lo[i * p + q], w[q]);
+      }
       values[i] = acc.value();
     }
     return { values, outside: design.outside.filter((o) => o.count > 0) };
@@ -205,17 +207,24 @@ export function prepare(table: Table, spec: FitSpec) {
   return { y, terms, design };
 }
 
+/** Solution `index` of an already solved all-rows sparse path (a sparse sweep's final model). */
+interface SolvedPath {
+  readonly path: SparsePath;
+  readonly index: number;
+}
+
 /**
  * The fit on an already built design: exact for ridge; for lasso / elastic net the all-rows
- * coordinate-descent solution at `spec.alpha`, or solution `index` of an already `solved`
- * all-rows path (a sparse sweep's final model).
+ * coordinate-descent solution at `spec.alpha`, or the `known.sparse` solution. `known` may also
+ * carry the all-rows co-moments and their spectrum (a sweep has them), so they are not
+ * computed again.
  */
 export function fitPrepared(
   spec: FitSpec,
   terms: readonly LearnedTerm[],
   design: Design,
   y: Float64Array,
-  solved?: { readonly path: SparsePath; readonly index: number },
+  known: KnownSummaries & { readonly sparse?: SolvedPath } = {},
 ): Fit {
   const standardize = spec.standardize ?? true;
   const intercept = spec.intercept ?? true;
@@ -225,12 +234,11 @@ export function fitPrepared(
   const sds = scales ? scales.sds : new Float64Array(p).fill(1);
   if (scales) checkNotConstant(design, sds, scales.means);
   const gamma = penaltyWeights(penalty, design.orders);
-  const factor = factorData(design.block, intercept);
-  const tri = triangularOf(factor, y);
-  const condition = conditionNumber(tri.r, sds);
+  const basis = solverBasis(design, y, sds, { gamma, standardize, intercept }, known);
+  const condition = basis.condition;
   if (isSparse(penalty)) {
     const options = { standardize, intercept, tolerance: spec.tolerance };
-    const { path, index } = solved ??
+    const { path, index } = known.sparse ??
       { path: allRowsPath(design, y, penalty, [spec.alpha as number], options), index: 0 };
     const summary = sparseSummary(path, path.solutions[index], {
       target: spec.target,
@@ -240,11 +248,14 @@ export function fitPrepared(
     });
     return new Fit(summary, terms);
   }
-  const sf = spectralForm(tri, sds, gamma);
+  const sf = spectralFormOf(basis, sds, gamma);
   const lambda = spec.budget !== undefined ? lambdaForBudget(sf, spec.budget) : spec.lambda ?? 0;
-  if (lambda === 0) checkRank(design, tri.r, sds, condition, n, intercept);
+  // The co-moments basis is only taken at condition ≤ 10⁵, where the rank is full.
+  if (lambda === 0 && basis.kind === "rows") {
+    checkRank(design, basis.triangular.r, sds, condition, n, intercept);
+  }
   const penaltyRoot = Float64Array.from(gamma, (g, q) => Math.sqrt(lambda * g) * sds[q]);
-  const sol = solveRefined({ ...design.block, y, intercept, penaltyRoot }, factor);
+  const sol = solveOn(basis, { ...design.block, y, intercept, penaltyRoot }, lambda);
   const w = Array.from(sol.w);
   const wStd = w.map((v, q) => v * sds[q]);
   const means = scales ? Array.from(scales.means) : new Array<number>(p).fill(0);
@@ -395,12 +406,6 @@ function checkNotConstant(design: Design, sds: Float64Array, means: Float64Array
       );
     }
   });
-}
-
-/** σ_max/σ_min of R·diag(1/s). */
-function conditionNumber(r: readonly Float64Array[], sds: Float64Array): number {
-  const { s } = jacobiSvd(r.map((col, q) => col.map((x) => x / sds[q])));
-  return s.length === 0 ? 1 : s[0] / s[s.length - 1];
 }
 
 function checkRank(

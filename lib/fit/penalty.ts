@@ -14,7 +14,9 @@ export type RidgeWeights = "equal" | "rising" | "falling" | readonly number[];
 
 /** A quadratic penalty λ Σ γ_q w*_q². */
 export interface RidgePenalty {
+  /** Discriminant: always "ridge" (quadratic penalty, strength λ). */
   readonly kind: "ridge";
+  /** How γ_q is set per design column; an explicit array is copied and frozen. */
   readonly weights: RidgeWeights;
   /** For "rising"/"falling": γ_q = order_q^exponent or order_q^−exponent. */
   readonly exponent: number;

@@ -36,7 +36,7 @@ export function columnScales(block: DesignBlock): ColumnScales {
       const a = hi[row + q];
       const s = sumHi[q] + a;
       const l = sumLo[q] + sumError(sumHi[q], a, s);
-      sumLo[q] = l + lo[row + q];
+      sumLo[q] = lo === null ? l : l + lo[row + q];
       sumHi[q] = s;
     }
   }
@@ -46,7 +46,7 @@ export function columnScales(block: DesignBlock): ColumnScales {
   for (let i = 0; i < n; i++) {
     const row = i * p;
     for (let q = 0; q < p; q++) {
-      const d = (hi[row + q] - means[q]) + lo[row + q];
+      const d = lo === null ? hi[row + q] - means[q] : (hi[row + q] - means[q]) + lo[row + q];
       const sq = d * d;
       const dHi = splitHigh(d);
       const s = sumHi[q] + sq;

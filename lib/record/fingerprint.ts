@@ -125,9 +125,11 @@ function summarizeColumn(column: Column): ColumnSummary {
   if (column.kind === "category") {
     return { name: column.name, kind: "category", levels: [...column.levels] };
   }
+  const values = column.values;
   let min = Infinity;
   let max = -Infinity;
-  for (const v of column.values) {
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
     if (v < min) min = v;
     if (v > max) max = v;
   }

@@ -25,7 +25,8 @@ import {
   solveR,
   solveRt,
 } from "../numeric/qr.ts";
-import { DDAccumulator, productError, splitHigh, sumError } from "../numeric/dd.ts";
+import { DDAccumulator } from "../numeric/dd.ts";
+import { type ColumnSums, columnsWithLo, residualPass, residualSumOfSquares } from "./residuals.ts";
 import type { DesignBlock } from "../design/types.ts";
 import type { Triangular } from "./spectral.ts";
 
@@ -34,7 +35,7 @@ export interface LsProblem {
   readonly n: number;
   readonly p: number;
   readonly hi: Float64Array;
-  readonly lo: Float64Array;
+  readonly lo: Float64Array | null;
   readonly y: Float64Array;
   readonly intercept: boolean;
   /** c_q = √(λγ_q)·s_q per column; omitted or all zero for no penalty. */
@@ -213,49 +214,6 @@ export function solveRefined(problem: LsProblem, factor?: DataFactor): LsSolutio
 }
 
 /**
- * Σ (yᵢ − b − zᵢᵀw)² with each residual formed in double-double. `withLo` flags the design
- * columns whose lo parts are not all zero (computed from the block when omitted).
- *
- * @example
- * ```ts
- * import { residualSumOfSquares } from "./exact.ts";
- * const block = { n: 2, p: 1, hi: Float64Array.of(1, 2), lo: new Float64Array(2), y: Float64Array.of(1, 1) };
- * console.log(residualSumOfSquares(block, 0, Float64Array.of(1))); // 1
- * ```
- */
-export function residualSumOfSquares(
-  problem: Pick<LsProblem, "n" | "p" | "hi" | "lo" | "y">,
-  intercept: number,
-  w: Float64Array,
-  withLo: Uint8Array = columnsWithLo(problem),
-): number {
-  const e = new Float64Array(problem.n);
-  dataResiduals(problem, withLo, intercept, w, undefined, e);
-  const sum = new DDAccumulator();
-  for (let i = 0; i < e.length; i++) sum.addProduct(e[i], e[i]);
-  return sum.value();
-}
-
-/**
- * Flags (1) the columns of a design block whose lo parts are not all zero.
- *
- * @example
- * ```ts
- * import { columnsWithLo } from "./exact.ts";
- * console.log(columnsWithLo({ n: 1, p: 2, hi: Float64Array.of(0.1, 0.01), lo: Float64Array.of(0, 1e-19) })); // Uint8Array(2) [ 0, 1 ]
- * ```
- */
-export function columnsWithLo(block: DesignBlock): Uint8Array {
-  const { n, p, lo } = block;
-  const flags = new Uint8Array(p);
-  for (let i = 0; i < n; i++) {
-    const row = i * p;
-    for (let q = 0; q < p; q++) if (lo[row + q] !== 0) flags[q] = 1;
-  }
-  return flags;
-}
-
-/**
  * The orthogonal factor of A = [1 Z; 0 diag(c)] (scaled), as operations. Vectors in the
  * rotated space are laid out as [the nc + (penalty rows) entries of the small factor's space,
  * then the n − nc trailing entries of Q₀ᵀ's data part].
@@ -333,95 +291,13 @@ function residualF(
   const { n } = problem;
   const off = problem.intercept ? 1 : 0;
   const w = Float64Array.from(x.subarray(off), (v, q) => v * data.scale[off + q]);
-  dataResiduals(problem, data.withLo, off ? x[0] : 0, w, r, f, sums);
+  residualPass(problem, data.withLo, off ? x[0] : 0, w, { r, out: f, sums, multiplier: "given" });
   const acc = new DDAccumulator();
   for (let q = 0; q < ortho.penaltyRows; q++) {
     acc.reset();
     acc.add(-r[n + q]);
     acc.addProduct(-ortho.penalty[off + q], x[off + q]);
     f[n + q] = acc.value();
-  }
-}
-
-/**
- * Compensated column sums of Aᵀr: leading parts in `hi`, trailing in `lo`, one per factored
- * column (the intercept's first when there is one).
- */
-interface ColumnSums {
-  readonly hi: Float64Array;
-  readonly lo: Float64Array;
-  readonly intercept: boolean;
-}
-
-/**
- * out[i] = yᵢ − rᵢ − b − Σ_q (hi + lo)_iq w_q for the data rows, each formed in double-double
- * with the operations of one `DDAccumulator` per row, inlined: the split of each w_q is taken
- * once, and lo parts are read only for the columns flagged in `withLo`. When `sums` is given
- * (with r), it is reset to Σᵢ rᵢ and Σᵢ (hi + lo)_iq rᵢ in the same pass, with the operations
- * of one `DDAccumulator` per column and the split of each design value shared.
- */
-function dataResiduals(
-  problem: Pick<LsProblem, "n" | "p" | "hi" | "lo" | "y">,
-  withLo: Uint8Array,
-  intercept: number,
-  w: Float64Array,
-  r: Float64Array | undefined,
-  out: Float64Array,
-  sums?: ColumnSums,
-): void {
-  const { n, p, hi, lo, y } = problem;
-  const wHi = w.map(splitHigh);
-  const wLo = w.map((v, q) => v - wHi[q]);
-  const sumHi = sums?.hi ?? new Float64Array(0);
-  const sumLo = sums?.lo ?? new Float64Array(0);
-  const off = sums?.intercept ? 1 : 0;
-  const gradient = sums !== undefined && r !== undefined;
-  sumHi.fill(0);
-  sumLo.fill(0);
-  for (let i = 0; i < n; i++) {
-    let h = y[i];
-    let l = 0;
-    let s: number;
-    const ri = r === undefined ? 0 : r[i];
-    if (r !== undefined) {
-      s = h - ri;
-      l += sumError(h, -ri, s);
-      h = s;
-    }
-    s = h - intercept;
-    l += sumError(h, -intercept, s);
-    h = s;
-    const rHi = splitHigh(ri);
-    const rLo = ri - rHi;
-    if (gradient && off) {
-      const t = sumHi[0] + ri;
-      sumLo[0] += sumError(sumHi[0], ri, t);
-      sumHi[0] = t;
-    }
-    const row = i * p;
-    for (let q = 0; q < p; q++) {
-      const v = hi[row + q];
-      const vHi = splitHigh(v);
-      const vLo = v - vHi;
-      // f: the product (−v)·w_q; the split of −v is the negated split of v.
-      const prod = -v * w[q];
-      s = h + prod;
-      l += sumError(h, prod, s);
-      h = s;
-      l += productError(prod, -vHi, -vLo, wHi[q], wLo[q]);
-      if (withLo[q] === 1) l += -lo[row + q] * w[q];
-      if (gradient) {
-        const gp = v * ri;
-        const gh = sumHi[off + q];
-        const t = gh + gp;
-        let gl = sumLo[off + q] + sumError(gh, gp, t);
-        gl += productError(gp, vHi, vLo, rHi, rLo);
-        if (withLo[q] === 1) gl += lo[row + q] * ri;
-        sumHi[off + q] = t;
-        sumLo[off + q] = gl;
-      }
-    }
-    out[i] = h + l;
   }
 }
 

@@ -259,15 +259,19 @@ export function* sweepPrepared(
     const last = curve.length - 1;
     finalModel = (c) =>
       fitPrepared({ ...spec, alpha: c.strength }, terms, design, y, {
-        path: cv.full,
-        index: last - c.index,
+        moments: all,
+        sparse: { path: cv.full, index: last - c.index },
       });
   } else {
     const cv = yield* crossValidate(source, design.names, options, spec.lambdas, report);
     const closed = wantClosedForm(spec.closedForm, n);
     const loo = closed ? leaveOneOutErrors(cv.full, hi, y, cv.lambdas) : null;
     curve = curvePoints(cv, plan.k, loo);
-    finalModel = (c) => fitPrepared({ ...spec, lambda: c.strength }, terms, design, y);
+    finalModel = (c) =>
+      fitPrepared({ ...spec, lambda: c.strength }, terms, design, y, {
+        moments: all,
+        spectrum: cv.full,
+      });
   }
   const scale = strengthScale(penalty);
   const grid = curve.map((c) => c.strength);
