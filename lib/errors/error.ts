@@ -65,6 +65,14 @@ export class CurbfitError extends Error {
   /** Where the problem was found. */
   readonly place: ErrorPlace;
 
+  /**
+   * The message is the place prefix (see `describePlace`), then `what`, a full stop, then `hint`.
+   *
+   * @param code stable code for the kind of problem
+   * @param what what is wrong, without a trailing full stop
+   * @param hint what to do about it, one sentence
+   * @param place where it was found (default: nowhere in particular)
+   */
   constructor(code: ErrorCode, what: string, hint: string, place: ErrorPlace = {}) {
     super(`${describePlace(place)}${what}. ${hint}`);
     this.name = "CurbfitError";

@@ -74,6 +74,10 @@ export interface ProgressOptions {
 
 /** A progress output: pass `listener` to sweep/compare, await `start` before, `finish` after. */
 export interface ProgressDisplay {
+  /**
+   * The `progress` option for sweep/compare: keeps the latest report and redraws at most once per
+   * `intervalMs` (on a timer, so updates show while an async sweep yields to the event loop).
+   */
   readonly listener: ProgressListener;
   /** Shows the starting line (awaited, so it appears before synchronous work starts). */
   start(): Promise<void>;

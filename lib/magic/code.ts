@@ -42,6 +42,12 @@ export class ApiCall {
   /** Names the code expects the surrounding cell to define (`data`, `plan`). */
   readonly freeNames: readonly string[];
 
+  /**
+   * Wraps generated code; the instance and a copy of `freeNames` are frozen.
+   *
+   * @param code the TypeScript source of the call
+   * @param freeNames names the code uses but does not define
+   */
   constructor(code: string, freeNames: readonly string[]) {
     this.code = code;
     this.freeNames = Object.freeze([...freeNames]);

@@ -19,7 +19,9 @@ import { nearestWord } from "./words.ts";
  * ```
  */
 export interface Named {
+  /** The name itself: a word as written, a quoted name unquoted and unescaped, or a string value. */
   readonly name: string;
+  /** Where it was written in the template. */
   readonly spot: Spot;
 }
 

@@ -20,8 +20,11 @@ export const SOURCE_NAME = "curb template";
  * ```
  */
 export interface Spot {
+  /** 1-based line; line 1 holds the opening backtick. */
   readonly line: number;
+  /** 1-based column, counted in Unicode code points. */
   readonly column: number;
+  /** Number of code points covered (the caret shows at least one). */
   readonly length: number;
 }
 
@@ -69,6 +72,16 @@ export class MagicError extends CurbfitError {
   /** The nearest valid word, when one was close to what was written. */
   readonly suggestion: string | undefined;
 
+  /**
+   * Builds the located message and the caret excerpt.
+   *
+   * @param code stable error code, usually `MAGIC_SYNTAX`
+   * @param what what is wrong, without a trailing full stop
+   * @param hint what to do about it, one sentence
+   * @param spot where in the template the problem is
+   * @param lineText the text of line `spot.line`, interpolations shown as `${…}`
+   * @param suggestion the nearest valid word, if one is close
+   */
   constructor(
     code: ErrorCode,
     what: string,

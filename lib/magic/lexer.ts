@@ -45,8 +45,11 @@ export type Token =
  * ```
  */
 export interface SourceLine {
+  /** 1-based line number; line 1 holds the opening backtick. */
   readonly number: number;
+  /** The line's text with each interpolation shown as `${…}`, as error excerpts print it. */
   readonly text: string;
+  /** The line's tokens in order; empty for blank and comment-only lines. */
   readonly tokens: readonly Token[];
 }
 

@@ -21,4 +21,14 @@ export { curb, type CurbPlan, curbPlan, equivalentCall } from "./curb.ts";
 export { ApiCall } from "./code.ts";
 export { MagicError, type Spot } from "./error.ts";
 export type { CurbResult, RunOptions } from "./run.ts";
-export type { CurbProgram } from "./parser.ts";
+export type {
+  CandidateNode,
+  CurbProgram,
+  DataNode,
+  FoldsNode,
+  Settings,
+  TermNode,
+} from "./parser.ts";
+export type { Job } from "./job.ts";
+export type { SourceLine, Token } from "./lexer.ts";
+export type { Named } from "./cursor.ts";

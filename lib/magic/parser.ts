@@ -65,41 +65,118 @@ const INSTEAD: Readonly<Record<string, Statement>> = {
 /** Statements allowed only before the first candidate. */
 const SHARED_ONLY: readonly Statement[] = ["data", "predict", "folds"];
 
-/** Where the rows come from: an interpolated value (table, rows, columns) or a CSV file path. */
+/**
+ * Where the rows come from: an interpolated value (table, rows, columns) or a CSV file path,
+ * with the spot of the value or path on the `data` line.
+ *
+ * @example
+ * ```ts
+ * import type { DataNode } from "./parser.ts";
+ * const file: DataNode = { kind: "file", path: "orchard.csv", spot: { line: 2, column: 8, length: 13 } };
+ * ```
+ */
 export type DataNode =
   | { readonly kind: "value"; readonly value: unknown; readonly spot: Spot }
   | { readonly kind: "file"; readonly path: string; readonly spot: Spot };
 
-/** One term with the columns it names (for checking them against the data). */
+/**
+ * One term with the columns it names (for checking them against the data).
+ *
+ * @example
+ * ```ts
+ * import type { TermNode } from "./parser.ts";
+ * import { legendre } from "../design/mod.ts";
+ * const node: TermNode = {
+ *   term: legendre("hours", 4),
+ *   columns: [{ name: "hours", spot: { line: 4, column: 18, length: 5 } }],
+ *   spot: { line: 4, column: 9, length: 23 },
+ * };
+ * ```
+ */
 export interface TermNode {
+  /** The term the words (or the interpolated term) stand for. */
   readonly term: Term;
+  /** Data columns the term reads, each with where it was named (an interpolation's spot). */
   readonly columns: readonly Named[];
+  /** The term's text, from its first word to its last (a product spans both factors). */
   readonly spot: Spot;
 }
 
-/** The folds: a request, or an interpolated plan; `groups` is the grouping column if named. */
+/**
+ * The folds: a request, or an interpolated plan; `groups` is the grouping column if named.
+ *
+ * @example
+ * ```ts
+ * import type { FoldsNode } from "./parser.ts";
+ * // folds 5 seed 3 grouped by site
+ * const node: FoldsNode = {
+ *   request: { k: 5, seed: 3, groups: "site" },
+ *   groups: { name: "site", spot: { line: 5, column: 29, length: 4 } },
+ *   spot: { line: 5, column: 9, length: 1 },
+ * };
+ * ```
+ */
 export interface FoldsNode {
+  /** An interpolated fold plan as given, or the request the words describe. */
   readonly request: FoldPlan | FoldRequest;
+  /** The column after `grouped by`, with where it was written; undefined when not grouped. */
   readonly groups?: Named;
+  /** Where the fold description starts after the word `folds`, for errors about it. */
   readonly spot: Spot;
 }
 
-/** Model settings of one section (shared, or one candidate). Absent means "not said here". */
+/**
+ * Model settings of one section (shared, or one candidate). Absent means "not said here".
+ *
+ * @example
+ * ```ts
+ * import type { Settings } from "./parser.ts";
+ * import { ridge } from "../fit/penalty.ts";
+ * // gamma rising 2
+ * // rule one-se
+ * const said: Settings = { penalty: ridge({ weights: "rising", exponent: 2 }), rule: "one-se" };
+ * ```
+ */
 export interface Settings {
+  /** Terms from every `terms` line of the section, in order. */
   readonly terms?: readonly TermNode[];
+  /** From the `penalty` and `gamma` lines: lasso, elastic net, or ridge with its γ weights. */
   readonly penalty?: Penalty;
+  /** The ridge λ grid of the `lambda` line. */
   readonly lambdas?: LambdaGrid;
+  /** The sparse α grid of the `alpha` line. */
   readonly alphas?: AlphaGrid;
+  /** The selection rule of the `rule` line. */
   readonly rule?: SelectionRule;
+  /** `scale standardized` (true) or `scale raw` (false). */
   readonly standardize?: boolean;
+  /** `intercept yes` (true) or `intercept no` (false). */
   readonly intercept?: boolean;
+  /** The `closed-form` line: yes (true), no (false) or auto. */
   readonly closedForm?: boolean | "auto";
 }
 
-/** A candidate: its name and its own settings. */
+/**
+ * A candidate: its name and its own settings.
+ *
+ * @example
+ * ```ts
+ * import type { CandidateNode } from "./parser.ts";
+ * // candidate plain ridge
+ * // rule min
+ * const node: CandidateNode = {
+ *   name: "plain ridge",
+ *   spot: { line: 7, column: 13, length: 11 },
+ *   settings: { rule: "min" },
+ * };
+ * ```
+ */
 export interface CandidateNode {
+  /** The name after `candidate`: quoted or interpolated text, else the rest of the line as written. */
   readonly name: string;
+  /** Where the name was written. */
   readonly spot: Spot;
+  /** What the candidate's own lines say; `jobOf` fills the gaps from the shared settings. */
   readonly settings: Settings;
 }
 
@@ -120,11 +197,17 @@ export interface CandidateNode {
  * ```
  */
 export interface CurbProgram {
+  /** Every line of the template, blank and comment-only ones included (line 1 first). */
   readonly lines: readonly SourceLine[];
+  /** What the `data` line gave: an interpolated value or a CSV file path. */
   readonly data: DataNode;
+  /** The column named on the `predict` line. */
   readonly target: Named;
+  /** The `folds` line; undefined when the template has none (the sweep default applies). */
   readonly folds?: FoldsNode;
+  /** Settings written before the first `candidate` line; candidates inherit the ones they omit. */
   readonly shared: Settings;
+  /** The candidates in template order: empty for one swept model, otherwise two or more. */
   readonly candidates: readonly CandidateNode[];
 }
 

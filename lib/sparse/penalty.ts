@@ -13,7 +13,9 @@ import { CurbfitError } from "../errors/error.ts";
 
 /** A lasso or elastic-net penalty; `mix` is ρ, the L1 share (1 for the lasso). */
 export interface SparsePenalty {
+  /** Which sparse penalty; its strength is α in the 1/(2N) convention, never the ridge λ. */
   readonly kind: "lasso" | "elastic-net";
+  /** ρ ∈ (0, 1], the L1 share of the penalty: 1 for the lasso. */
   readonly mix: number;
 }
 

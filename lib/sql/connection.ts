@@ -19,7 +19,9 @@ import type { SqlQuery } from "./query.ts";
  * ```
  */
 export interface SqlRows {
+  /** Result column names, in SELECT order. */
   readonly columns: readonly string[];
+  /** One array per result row, values in `columns` order, typed as the driver returns them. */
   readonly rows: readonly (readonly unknown[])[];
 }
 
@@ -34,7 +36,9 @@ export interface SqlRows {
  * ```
  */
 export interface SqlConnection {
+  /** The engine's identifier quoting, identifier length limit and parameter syntax. */
   readonly dialect: SqlDialect;
+  /** Runs one parameterized query and resolves to all of its rows; rejects on a driver error. */
   run(query: SqlQuery): Promise<SqlRows>;
 }
 
@@ -50,6 +54,7 @@ export interface SqlConnection {
  * ```
  */
 export interface DuckDBConnectionLike {
+  /** Runs `sql` with positional `values` for `$1`, `$2`, … and reads the whole result. */
   runAndReadAll(
     sql: string,
     values?: (number | string)[],
@@ -66,6 +71,7 @@ export interface DuckDBConnectionLike {
  * ```
  */
 export interface PgClientLike {
+  /** Runs a parameterized query; `rowMode: "array"` makes each row an array, not an object. */
   query(config: { text: string; values: unknown[]; rowMode: "array" }): Promise<{
     fields: { name: string }[];
     rows: unknown[][];

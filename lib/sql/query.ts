@@ -68,7 +68,9 @@ export type SumItem =
  * ```
  */
 export interface SqlQuery {
+  /** SQL text with placeholders written in the dialect's form (`$1`, `$2`, …). */
   readonly text: string;
+  /** Value of placeholder i + 1 at index i; names never go here, only values. */
   readonly params: readonly (number | string)[];
 }
 

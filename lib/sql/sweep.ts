@@ -66,6 +66,7 @@ export interface SqlSweepSpec extends ScaleSweepSpec {
   readonly missing?: "error" | "drop";
   /** Most SUMs in one query (default 1500; PostgreSQL allows 1664 output columns). */
   readonly maxAggregates?: number;
+  /** Receives a report after the ranges query, after each moments query, per fold, and at the fit. */
   readonly progress?: ScaleProgressListener;
 }
 
@@ -85,6 +86,7 @@ export interface SqlSweepResult extends ScaleSweepResult {
   readonly dropped: number;
   /** Every query run, with its parameters, in order (the evidence of what was computed). */
   readonly queries: readonly SqlQuery[];
+  /** Wall-clock seconds of the whole sweep, from the first query to the fitted result. */
   readonly seconds: number;
   /** Rows aggregated per second over the moments queries. */
   readonly rowsPerSecond: number;

@@ -75,6 +75,13 @@ export class Statement {
   /** The sections as blocks, in reading order. */
   readonly blocks: readonly Block[];
 
+  /**
+   * Lays out the sections of an already parsed record; use `statement()` to start from JSON
+   * text or a result.
+   *
+   * @param record a record as returned by `parseRecord` or `recordOf` (kept, not copied)
+   * @param options where the reader finds the record and data files, for the commands shown
+   */
   constructor(record: ModelChoiceRecord, options: StatementOptions = {}) {
     this.record = record;
     const source = record.data.source;

@@ -58,6 +58,7 @@ export interface HashFoldRequest {
 export interface ScaleSweepSpec extends Omit<FitSpec, "lambda" | "budget"> {
   /** λ values, or bounds/count of an automatic log-spaced grid (default 100 points). */
   readonly lambdas?: LambdaGrid;
+  /** Fold count, hash seed and key column (default 10 folds, seed 1). */
   readonly folds?: HashFoldRequest;
   /** How to pick λ from the curve (default "min"). */
   readonly rule?: SelectionRule;
@@ -75,6 +76,7 @@ export interface ScaleSweepSpec extends Omit<FitSpec, "lambda" | "budget"> {
 export interface ScaleProgress {
   /** "domains": the first pass (ranges); "summaries": reading rows into fold summaries. */
   readonly stage: "domains" | Progress["stage"];
+  /** Steps done of `total`: bytes while reading a stream, queries for SQL, folds, the fit. */
   readonly done: number;
   /** While reading: bytes read of the total (NaN when the total is unknown). */
   readonly total: number;
@@ -107,7 +109,9 @@ export type ScaleProgressListener = (progress: ScaleProgress) => void;
 export interface HashFolds {
   /** `curbfit.fold-hash/1` (lib/stream/README.md). */
   readonly hash: string;
+  /** Seed the hash coefficients were drawn with. */
   readonly seed: number;
+  /** Number of folds. */
   readonly k: number;
   /** The key column, or null for data record numbers. */
   readonly key: string | null;
@@ -134,6 +138,7 @@ export interface ScaleSweepResult extends CurveResult {
   readonly source: string;
   /** Passes over the data (reads or queries), including any fold re-read. */
   readonly passes: number;
+  /** Plain cautions on reading the result (`CAUTIONS`: CV error, extrapolation, hash folds). */
   readonly cautions: readonly string[];
 }
 

@@ -61,7 +61,9 @@ export const FOLD_HASH_STREAM = 0x666f6c64;
  * ```
  */
 export interface FoldHash {
+  /** Seed of `SeededStream(seed, FOLD_HASH_STREAM)`, an integer from 0 to 2^53 − 1. */
   readonly seed: number;
+  /** Number of folds, 2 … 1000; folds are numbered 0 … k − 1. */
   readonly k: number;
   /** a0, a1, a2, a3, each in 0 … P − 1. */
   readonly coefficients: readonly [number, number, number, number];

@@ -82,7 +82,9 @@ export interface ReadPlan {
  * ```
  */
 export interface DroppedRecord {
+  /** 1-based line of the record in the source text. */
   readonly line: number;
+  /** Why it was dropped, naming the column when there is one. */
   readonly reason: string;
 }
 
@@ -100,10 +102,13 @@ export interface ReadStats {
   readonly records: number;
   /** Records kept. */
   readonly used: number;
+  /** Records dropped for a missing value (policy `missing: "drop"`). */
   readonly droppedMissing: number;
+  /** Records dropped as malformed (policy `malformed: "drop"`). */
   readonly droppedMalformed: number;
   /** The first dropped records (at most 20), with why. */
   readonly firstDropped: readonly DroppedRecord[];
+  /** Size read: bytes for files and byte streams, UTF-16 code units for streams of strings. */
   readonly bytes: number;
 }
 

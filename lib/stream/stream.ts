@@ -58,6 +58,7 @@ export interface StreamSweepSpec extends ScaleSweepSpec {
   readonly chunkRows?: number;
   /** Label for messages; default the path, or "stream". */
   readonly label?: string;
+  /** Receives reports while each pass reads (`done`/`total` in bytes), per fold, and at the fit. */
   readonly progress?: ScaleProgressListener;
 }
 
@@ -75,8 +76,9 @@ export interface StreamSweepResult extends ScaleSweepResult {
   readonly rows: ReadStats;
   /** Bytes of the fold summaries kept (does not grow with rows), and the chunk size. */
   readonly memory: { readonly summaryBytes: number; readonly chunkRows: number };
-  /** Wall time of the reading passes, and rows summarized per second over them. */
+  /** Wall-clock seconds of the whole sweep: every pass, the scoring and the fit. */
   readonly seconds: number;
+  /** Rows summarized (over every summaries pass, re-reads included) per second of `seconds`. */
   readonly rowsPerSecond: number;
 }
 

@@ -24,22 +24,27 @@ import { strengthSymbol } from "../fit/penalty.ts";
 
 /** A candidate: a name and the parts of a sweep spec that differ between candidates. */
 export interface Candidate extends Omit<SweepSpec, "target" | "folds" | "progress"> {
+  /** Label used in verdicts, charts and the record; non-blank and distinct among candidates. */
   readonly name: string;
 }
 
 /** Settings shared by every candidate. */
 export interface CompareOptions {
+  /** Name of the response column, the same for every candidate. */
   readonly target: string;
   /** One plan for all candidates (default 10-fold, seed 1). */
   readonly folds?: FoldPlan | FoldRequest;
   /** Rule for candidates that do not set their own (default "min"). */
   readonly rule?: SelectionRule;
+  /** Receives progress reports, each tagged with the `candidate` being swept. */
   readonly progress?: ProgressListener;
 }
 
 /** Paired per-fold difference to the best candidate. */
 export interface PairedDifference {
+  /** Mean over all folds (and repeats) of d_f = err_f(candidate) − err_f(best); MSE units. */
   readonly mean: number;
+  /** SD(d)/√K, K the fold count of the plan (the sweep's SE convention). */
   readonly se: number;
   /** |mean| ≤ 2·se. */
   readonly indistinguishable: boolean;
@@ -47,11 +52,15 @@ export interface PairedDifference {
 
 /** One candidate's outcome. */
 export interface CandidateOutcome {
+  /** The candidate's `name`, as given. */
   readonly name: string;
+  /** The candidate's full sweep on the shared fold plan. */
   readonly sweep: SweepResult;
   /** The chosen strength, on this candidate's own scale (`sweep.scale`: ridge λ or sparse α). */
   readonly strength: number;
+  /** Mean validation MSE over all folds (and repeats) at the chosen strength. */
   readonly cvMean: number;
+  /** Standard error of `cvMean`: SD of the fold errors / √K. */
   readonly cvSe: number;
   /** Fold errors at the chosen strength, repeat-major. */
   readonly foldMse: readonly number[];
@@ -64,8 +73,11 @@ export interface CandidateOutcome {
  * `[Symbol.for("Jupyter.display")]` method; see lib/views/display.ts).
  */
 export interface ComparisonResult {
+  /** Name of the response column. */
   readonly target: string;
+  /** The one fold plan every candidate was scored on. */
   readonly folds: FoldPlan;
+  /** One outcome per candidate, in the order the candidates were given. */
   readonly candidates: readonly CandidateOutcome[];
   /** Name of the candidate with the lowest CV error at its chosen λ. */
   readonly best: string;

@@ -21,11 +21,17 @@ import {
  * - `leaveOneOut: true`: every row its own fold (use the closed form for large n).
  */
 export interface FoldRequest {
+  /** Number of folds for (grouped) K-fold; default min(10, row count). */
   readonly k?: number;
+  /** PCG32 seed, an integer from 0 to 2^53−1 (default 1); unused by leave-one-out. */
   readonly seed?: number;
+  /** Independent reshuffles for K-fold, grouped K-fold or holdout (default 1). */
   readonly repeats?: number;
+  /** Name of a column in the data whose equal values keep rows in the same fold. */
   readonly groups?: string;
+  /** Fraction of rows held out for validation, strictly between 0 and 1; overrides `k`/`groups`. */
   readonly holdout?: number;
+  /** When true, every row is its own fold; overrides every other field. */
   readonly leaveOneOut?: boolean;
 }
 

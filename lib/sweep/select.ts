@@ -16,7 +16,9 @@ export type SelectionRule = "min" | "one-se";
 
 /** Which grid point a rule picked. */
 export interface Choice {
+  /** The rule that made this choice. */
   readonly rule: SelectionRule;
+  /** Position of the chosen point in the ascending grid (and in the sweep's `curve`). */
   readonly index: number;
   /** The chosen strength: ridge λ or sparse α (the sweep result's `scale` says which). */
   readonly strength: number;

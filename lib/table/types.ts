@@ -7,15 +7,21 @@
 
 /** A numeric column: float64 values, never NaN or ±Infinity once inside a table. */
 export interface NumericColumn {
+  /** Discriminant: always "number". */
   readonly kind: "number";
+  /** Column name as in the source header or input key. */
   readonly name: string;
+  /** One value per kept row, in row order. */
   readonly values: Float64Array;
 }
 
 /** A text column stored as categories: `levels` sorted (first level is the reference). */
 export interface CategoryColumn {
+  /** Discriminant: always "category". */
   readonly kind: "category";
+  /** Column name as in the source header or input key. */
   readonly name: string;
+  /** Distinct values seen in kept rows, sorted by UTF-16 code units (JavaScript's default sort). */
   readonly levels: readonly string[];
   /** Index into `levels` for each row. */
   readonly codes: Int32Array;
@@ -34,6 +40,7 @@ export interface MissingReport {
 
 /** A loaded table. */
 export interface Table {
+  /** Number of rows kept (after any rows dropped for missing values). */
   readonly nRows: number;
   /** Column names in source order. */
   readonly names: readonly string[];
@@ -43,5 +50,6 @@ export interface Table {
   readonly source: string;
   /** Source line (or 1-based row number) of each kept row, for messages that point at data. */
   readonly lineOfRow: Int32Array;
+  /** The missing-value policy applied and which source rows it dropped. */
   readonly missing: MissingReport;
 }

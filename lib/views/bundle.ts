@@ -30,10 +30,15 @@ export const MIME = {
 
 /** A Jupyter MIME bundle as Deno's kernel accepts it: MIME type → content. */
 export interface MimeBundle {
+  /** Title and body as plain text; control characters shown as visible escapes, no ANSI. */
   readonly "text/plain": string;
+  /** One `<div>`: escaped title, the chart as inline SVG when there is one, then the body. */
   readonly "text/html": string;
+  /** Bold escaped title, then the caller's Markdown body; absent when none was given. */
   readonly "text/markdown"?: string;
+  /** The chart drawn as SVG; absent when the result has no chart. */
   readonly "image/svg+xml"?: string;
+  /** The chart's Vega-Lite v5 spec, unchanged; absent when the result has no chart. */
   readonly "application/vnd.vegalite.v5+json"?: VegaLiteSpec;
 }
 

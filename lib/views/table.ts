@@ -16,10 +16,26 @@
 import { CurbfitError } from "../errors/error.ts";
 import { escapeHtml, showControls } from "./escape.ts";
 
-/** One table cell: text, or a number formatted by the table. */
+/**
+ * One table cell: text, or a number formatted by the table.
+ *
+ * @example
+ * ```ts
+ * import type { Cell } from "./table.ts";
+ * const row: Cell[] = ["degree 4", 0.0312];
+ * ```
+ */
 export type Cell = string | number;
 
-/** A table to show: a header row and data rows of the same length. */
+/**
+ * A table to show: a header row and data rows of the same length.
+ *
+ * @example
+ * ```ts
+ * import type { CellTable } from "./table.ts";
+ * const table: CellTable = { header: ["candidate", "CV error"], rows: [["degree 4", 0.0312]] };
+ * ```
+ */
 export interface CellTable {
   /** Column headings. */
   readonly header: readonly string[];

@@ -37,15 +37,25 @@ import { type StrengthScale, strengthSymbol } from "../../fit/penalty.ts";
  * ```
  */
 export interface ComparisonSource {
+  /** Response column name, shown in the heading. */
   readonly target: string;
+  /** The one fold plan all candidates share, described in the subtitle. */
   readonly folds: PlanWords;
+  /** Name of the candidate with the lowest CV error; the paired differences are against it. */
   readonly best: string;
+  /** One entry per candidate, drawn top to bottom in this order. */
   readonly candidates: readonly {
+    /** Candidate name (row label and legend entry). */
     readonly name: string;
+    /** The chosen strength on the candidate's own scale (ridge λ or sparse α). */
     readonly strength: number;
+    /** Mean validation MSE at `strength`. */
     readonly cvMean: number;
+    /** Standard error of `cvMean`. */
     readonly cvSe: number;
+    /** Paired per-fold difference to the best candidate; null for the best itself. */
     readonly versusBest: PairedDifference | null;
+    /** The candidate's sweep, for its validation curve. */
     readonly sweep: CurveSource;
   }[];
 }

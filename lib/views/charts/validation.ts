@@ -42,12 +42,19 @@ import {
  * ```
  */
 export interface CurveSource {
+  /** Response column name, used in the heading and the y-axis title. */
   readonly target: string;
+  /** Number of rows the sweep used, quoted in the subtitle. */
   readonly n: number;
+  /** The grid points in ascending strength. */
   readonly curve: readonly CurvePoint[];
+  /** The point with the smallest mean CV error (marked on the chart). */
   readonly minimum: Choice;
+  /** The point the selection rule picked (marked, and named in the title). */
   readonly chosen: Choice;
+  /** The sweep's plain-language notes, added to the curve's subtitle. */
   readonly notes: readonly string[];
+  /** How the rows were split, described in the title or subtitle. */
   readonly folds: PlanWords;
   /** Which convention the curve's strengths are on: ridge λ or sparse α. */
   readonly scale: StrengthScale;
