@@ -21,7 +21,13 @@ import { buildDesign, learnTerms } from "../design/mod.ts";
 import type { Table } from "../table/types.ts";
 import { type ColumnArrays, type RowObjects, toTable } from "../table/mod.ts";
 import { degreesOfFreedom, lambdaForBudget } from "../solve/spectral.ts";
-import { type KnownSummaries, solveOn, solverBasis, spectralFormOf } from "./solver.ts";
+import {
+  allRowsMoments,
+  type KnownSummaries,
+  solveOn,
+  solverBasis,
+  spectralFormOf,
+} from "./solver.ts";
 import { jacobiSvd } from "../numeric/svd.ts";
 import { DDAccumulator } from "../numeric/dd.ts";
 import {
@@ -230,16 +236,18 @@ export function fitPrepared(
   const intercept = spec.intercept ?? true;
   const penalty = spec.penalty ?? ridge();
   const { n, p } = design.block;
-  const scales = standardize ? columnScales(design.block) : undefined;
+  const moments = known.moments ?? allRowsMoments(design.block, y);
+  const scales = standardize ? columnScales(moments) : undefined;
   const sds = scales ? scales.sds : new Float64Array(p).fill(1);
   if (scales) checkNotConstant(design, sds, scales.means);
   const gamma = penaltyWeights(penalty, design.orders);
-  const basis = solverBasis(design, y, sds, { gamma, standardize, intercept }, known);
+  const options = { gamma, standardize, intercept };
+  const basis = solverBasis(design, y, sds, options, { ...known, moments });
   const condition = basis.condition;
   if (isSparse(penalty)) {
     const options = { standardize, intercept, tolerance: spec.tolerance };
     const { path, index } = known.sparse ??
-      { path: allRowsPath(design, y, penalty, [spec.alpha as number], options), index: 0 };
+      { path: allRowsPath(design, moments, penalty, [spec.alpha as number], options), index: 0 };
     const summary = sparseSummary(path, path.solutions[index], {
       target: spec.target,
       design,

@@ -9,7 +9,7 @@
  *
  * @module
  */
-import type { Design } from "../design/types.ts";
+import type { Design, DesignBlock } from "../design/types.ts";
 import {
   type DataFactor,
   factorData,
@@ -79,12 +79,27 @@ export function solverBasis(
   options: SpectrumOptions,
   known: KnownSummaries = {},
 ): SolverBasis {
-  const { n, p, hi } = design.block;
-  const moments = known.moments ?? bucketMoments(hi, p, y, new Int32Array(n), 1)[0];
+  const moments = known.moments ?? allRowsMoments(design.block, y);
   const spectrum = known.spectrum ?? decompose(moments, options);
   const condition = momentsCondition(moments, spectrum, options);
   if (condition <= MOMENTS_CONDITION) return { kind: "moments", spectrum, condition };
   return rowsBasis(design, y, sds, options.intercept);
+}
+
+/**
+ * Count, means and centered co-moments of the design columns and the target over all rows (one
+ * pass; lib/sweep/moments.ts).
+ *
+ * @example
+ * ```ts
+ * import { allRowsMoments } from "./solver.ts";
+ * const block = { n: 2, p: 1, hi: Float64Array.of(1, 3), lo: null };
+ * console.log(allRowsMoments(block, Float64Array.of(0, 1)).mean); // Float64Array(2) [ 2, 0.5 ]
+ * ```
+ */
+export function allRowsMoments(block: DesignBlock, y: Float64Array): Moments {
+  const { n, p, hi } = block;
+  return bucketMoments(hi, p, y, new Int32Array(n), 1)[0];
 }
 
 /** The QR basis of the rows (and the condition number from its triangular factor). */

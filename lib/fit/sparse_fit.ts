@@ -18,7 +18,7 @@
  */
 import { deepFreeze } from "../common/freeze.ts";
 import type { Design } from "../design/types.ts";
-import { bucketMoments } from "../sweep/moments.ts";
+import type { Moments } from "../sweep/moments.ts";
 import {
   gramProblem,
   penaltyMix,
@@ -39,8 +39,8 @@ export interface SparseSummaryContext {
 }
 
 /**
- * Solves the sparse problem on all rows of a design over the given α values (summarizing the
- * rows once; solutions in decreasing α).
+ * Solves the sparse problem on all rows of a design, from their co-moments, over the given α
+ * values (solutions in decreasing α).
  *
  * @example
  * ```ts
@@ -48,23 +48,22 @@ export interface SparseSummaryContext {
  * import { tableFromColumns } from "../table/mod.ts";
  * import { lasso } from "../sparse/mod.ts";
  * import { allRowsPath } from "./sparse_fit.ts";
+ * import { allRowsMoments } from "./solver.ts";
  * const x = Array.from({ length: 30 }, (_, i) => i / 29);
  * const table = tableFromColumns({ x });
  * const design = buildDesign(learnTerms([legendre("x", 5)], table), table);
- * const y = Float64Array.from(x, (v) => v * v);
- * const path = allRowsPath(design, y, lasso(), [0.1, 0.01], { standardize: true, intercept: true });
+ * const moments = allRowsMoments(design.block, Float64Array.from(x, (v) => v * v));
+ * const path = allRowsPath(design, moments, lasso(), [0.1, 0.01], { standardize: true, intercept: true });
  * console.log(path.solutions.map((s) => s.nonzero)); // fewer nonzero at α = 0.1
  * ```
  */
 export function allRowsPath(
   design: Design,
-  y: Float64Array,
+  moments: Moments,
   penalty: SparsePenalty,
   alphas: readonly number[],
   options: { standardize: boolean; intercept: boolean; tolerance?: number },
 ): SparsePath {
-  const { n, p, hi } = design.block;
-  const [moments] = bucketMoments(hi, p, y, new Int32Array(n), 1);
   const problem = gramProblem(moments, { ...options, names: design.names, where: "rows" });
   return sparsePath(problem, penalty, { alphas, tolerance: options.tolerance });
 }

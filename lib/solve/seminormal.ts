@@ -18,8 +18,8 @@
  * co-moments only set the speed. Each step shrinks the error by about κ²·ε, with κ² the spread
  * (e_max + λ)/(e_min + λ) and ε the co-moments' relative error, so the path is tried only when
  * that spread is at most 10¹⁰, and it gives up (the caller then uses the QR path) unless the
- * correction falls below half an ulp of the largest coefficient, or levels off within a few ulps,
- * in a few steps. This is iterative refinement of the seminormal kind (Björck 1987, "Stability
+ * correction falls below half an ulp of the largest coefficient (or the contraction seen over two
+ * steps puts the next one there), or levels off within a few ulps, in a few steps. This is iterative refinement of the seminormal kind (Björck 1987, "Stability
  * analysis of the method of seminormal equations for linear least squares problems", Linear
  * Algebra Appl. 88/89; recalled from memory) with the factor taken from the co-moments.
  *
@@ -100,21 +100,26 @@ export function solveSeminormal(
     lo: new Float64Array(p + 1),
     intercept: true,
   };
-  let last = Infinity;
+  let last = 0;
   for (let pass = 1; pass <= MAX_PASSES; pass++) {
     const rss = residualPass(problem, withLo, b, w, { sums, multiplier: "residual" });
     const { dw, db } = correction(gram, lambda, gradient(sums, penalty, w), n, intercept);
     const rel = relativeSize(dw, db, w, b, size);
     w = w.map((v, q) => v + dw[q]);
     b += db;
-    const levelled = pass >= 2 && rel > 0.5 * last && rel <= LEVELLED;
-    if (rel <= CONVERGED || levelled) {
+    // After two passes the ratio of corrections estimates the contraction, and so the size of
+    // the next correction: stop when that is below half an ulp too (it saves the pass that would
+    // only confirm it), or when the corrections stopped shrinking at a few ulps.
+    const rate = pass === 1 ? NaN : rel / last; // NaN: no comparison holds
+    const settled = rate <= 0.25 && rel * rate <= CONVERGED;
+    const levelled = rate > 0.5 && rel <= LEVELLED;
+    if (rel <= CONVERGED || settled || levelled) {
       // The RSS is the pass's, at the iterate before this last correction: the correction is
       // below a few ulps of the largest coefficient, so it moves the RSS by about
       // (2⁻⁵⁰·‖y‖)² at most, below the RSS's own rounding.
       return { intercept: b, w, rss, iterations: pass, lastCorrection: rel };
     }
-    if (pass >= 2 && rel > 0.25 * last) return undefined;
+    if (rate > 0.25) return undefined;
     last = rel;
   }
   return undefined;
