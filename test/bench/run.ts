@@ -59,9 +59,10 @@ function sizes(name: string, fallback: number[]): number[] {
 
 /**
  * Bytes the sweep may need, from the buffers it allocates: the data (n·(p+1) doubles), the
- * design hi + lo (2·n·p), a per-fold rebuilt design when a term needs one (2·n·p), and the exact
- * refit's column copies (3 to 4·n·(p+1)). Measured peaks are about 8·n·6p bytes, so this
- * (8·n·(9p+1)) errs on the safe side. A rough guard, not a prediction.
+ * design (n·p, and as much again for trailing parts when a term writes them), a per-fold rebuilt
+ * design when a term needs one (2·n·p), and, only for a design too ill-conditioned for the
+ * co-moments path, the QR refit's column copies (3 to 4·n·(p+1)). This (8·n·(9p+1)) errs on the
+ * safe side. A rough guard, not a prediction.
  */
 function estimatedBytes(n: number, p: number): number {
   return 8 * n * (p + 1 + 8 * p);

@@ -130,7 +130,7 @@ function runSweep(table: Table, o: CaseOptions): { check: number; stages: Record
       if (stage === "summaries" && done === 0) mark("design + all-rows summary + grid");
       else if (stage === "folds") mark("fold summaries + per-fold eigen + λ loop");
       else if (stage === "refit" && done === 0) mark("GCV + curve");
-      else if (stage === "refit") mark("exact refit (QR, refinement)");
+      else if (stage === "refit") mark("exact refit (refinement)");
     },
   });
   mark("finish (freeze result)");
