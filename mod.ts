@@ -38,6 +38,7 @@ export {
 } from "./lib/table/mod.ts";
 export {
   column,
+  type DesignBlock,
   indicators,
   type Json,
   type LearnedTerm,
@@ -127,9 +128,17 @@ export {
   recordOf,
   type RecordOptions,
   type RidgeModelSection,
+  type RidgeStanding,
   type Shown,
   type SoftwareSection,
+  type SparseChoiceSection,
+  type SparseCvSection,
+  type SparseFinalSection,
+  type SparseGridSection,
   type SparseModelSection,
+  type SparsePenaltySection,
+  type SparseStanding,
+  type StandingCommon,
   type SweepProvenance,
   type SweepSource,
   type TermSection,
@@ -139,15 +148,24 @@ export {
 } from "./lib/record/mod.ts";
 export {
   ApiCall,
+  type CandidateNode as CurbCandidate,
   curb,
   type CurbPlan,
   curbPlan,
   type CurbProgram,
   type CurbResult,
+  type DataNode as CurbData,
   equivalentCall,
+  type FoldsNode as CurbFolds,
+  type Job as CurbJob,
   MagicError,
+  type Named as CurbName,
   type RunOptions,
+  type Settings as CurbSettings,
+  type SourceLine as CurbSourceLine,
   type Spot,
+  type TermNode as CurbTerm,
+  type Token as CurbToken,
 } from "./lib/magic/mod.ts";
 export {
   type Bundle,
@@ -156,9 +174,16 @@ export {
   progressDisplay,
   type ProgressOptions,
 } from "./lib/kernel/progress.ts";
-export { Statement, statement, type StatementOptions } from "./lib/statement/mod.ts";
+export {
+  type Block as StatementBlock,
+  type Inline as StatementInline,
+  Statement,
+  statement,
+  type StatementOptions,
+} from "./lib/statement/mod.ts";
 export { type CliIo, EXIT, runCli } from "./lib/cli/mod.ts";
 export {
+  type DroppedRecord,
   FOLD_HASH,
   type FoldHash,
   foldHash,
@@ -183,6 +208,7 @@ export {
   type PgClientLike,
   postgresConnection,
   type SqlConnection,
+  type SqlDialect,
   type SqlQuery,
   type SqlRows,
   type SqlSweepResult,
@@ -208,3 +234,4 @@ export {
 export type { PlanWords } from "./lib/views/charts/theme.ts";
 export type { VegaLiteSpec } from "./lib/views/render.ts";
 export type { MimeBundle } from "./lib/views/bundle.ts";
+export type { Cell as TableCell, CellTable } from "./lib/views/table.ts";

@@ -43,6 +43,7 @@ import { allRowsPath, sparseSummary } from "./sparse_fit.ts";
 import type { SparsePath } from "../sparse/mod.ts";
 import { columnScales } from "./scale.ts";
 import { fitBundle, JUPYTER_DISPLAY } from "../views/display.ts";
+import type { ShownBundle } from "../views/charts/show.ts";
 
 /** In-memory data accepted wherever a Table is: row objects or named column arrays. */
 export type TableInput = RowObjects | ColumnArrays;
@@ -71,6 +72,7 @@ export interface FitSpec {
 
 /** Predictions for new rows, with rows outside the training domain counted per term. */
 export interface Prediction {
+  /** One prediction per row, in row order (each formed in double-double, then rounded). */
   readonly values: Float64Array;
   /** Terms that met rows outside what they learned (e.g. a Legendre domain), with counts. */
   readonly outside: readonly { readonly label: string; readonly count: number }[];
@@ -78,12 +80,15 @@ export interface Prediction {
 
 /** Numbers describing one fitted model; every array is frozen. */
 export interface FitSummary {
+  /** Name of the predicted column. */
   readonly target: string;
+  /** Rows fitted. */
   readonly n: number;
   /** Design column names, in coefficient order. */
   readonly names: readonly string[];
   /** Polynomial order of each design column. */
   readonly orders: readonly number[];
+  /** The penalty: ridge with its weights, lasso, or elastic net with its mix. */
   readonly penalty: Penalty;
   /** Which convention `strength` is on: ridge λ ("lambda") or sparse α ("alpha"). */
   readonly scale: StrengthScale;
@@ -107,13 +112,17 @@ export interface FitSummary {
   readonly nonzero: number;
   /** Intercept and coefficients on the original scale of the data. */
   readonly intercept: number;
+  /** One coefficient per design column, on the original scale (see `intercept`). */
   readonly coefficients: readonly number[];
   /** On the standardized scale: w*_q = s_q w_q, intercept = prediction at the column means. */
   readonly standardized: { readonly intercept: number; readonly coefficients: readonly number[] };
+  /** Whether columns were standardized (the penalty then acts on w*_q = s_q w_q). */
   readonly standardize: boolean;
+  /** Whether an unpenalized intercept was fitted. */
   readonly hasIntercept: boolean;
-  /** Column means and SDs (divisor n) of the training rows; SD 1 and mean 0 when not standardizing. */
+  /** Column means of the training rows (0 when not standardizing). */
   readonly means: readonly number[];
+  /** Column SDs (divisor n) of the training rows (1 when not standardizing). */
   readonly sds: readonly number[];
   /** Σ residual² / n on the training rows. */
   readonly trainMse: number;
@@ -153,6 +162,10 @@ export class Fit {
   /** The terms with their learned parameters. */
   readonly terms: readonly LearnedTerm[];
 
+  /**
+   * Wraps a summary and the learned terms that make its design; `fit`, `sweep` and `loadRecord`
+   * build these.
+   */
   constructor(summary: FitSummary, terms: readonly LearnedTerm[]) {
     this.summary = summary;
     this.terms = terms;
@@ -179,7 +192,7 @@ export class Fit {
   }
 
   /** Jupyter display: the standardized coefficients as a chart, and the fit's numbers. */
-  [JUPYTER_DISPLAY](): ReturnType<typeof fitBundle> {
+  [JUPYTER_DISPLAY](): Promise<ShownBundle> {
     return fitBundle(this);
   }
 }

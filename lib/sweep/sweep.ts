@@ -64,8 +64,14 @@ import { sweepBundle, withDisplay } from "../views/display.ts";
 
 /** A progress report: `done` of `total` steps of `stage`. */
 export interface Progress {
+  /**
+   * What is running: reading rows into summaries, scoring folds, or refitting the chosen model
+   * on all rows.
+   */
   readonly stage: "summaries" | "folds" | "refit";
+  /** Steps of this stage finished so far (0 when it starts). */
   readonly done: number;
+  /** Steps in this stage (folds × repeats for "folds"; 1 otherwise). */
   readonly total: number;
   /** Candidate name, during `compare`. */
   readonly candidate?: string;
@@ -97,6 +103,7 @@ export interface SweepSpec extends Omit<FitSpec, "lambda" | "budget" | "alpha"> 
    * n ≤ 100 000). GCV is always computed.
    */
   readonly closedForm?: boolean | "auto";
+  /** Called as the sweep moves through its stages (see `Progress`); must return quickly. */
   readonly progress?: ProgressListener;
 }
 
@@ -138,15 +145,23 @@ export interface CurvePoint {
  * ```
  */
 export interface CurveResult {
+  /** Name of the predicted column. */
   readonly target: string;
+  /** Rows used (all folds together). */
   readonly n: number;
+  /** Design column names, in coefficient order. */
   readonly names: readonly string[];
+  /** Polynomial order of each design column. */
   readonly orders: readonly number[];
+  /** Penalty weight γ_q of each design column (all 1 for sparse penalties). */
   readonly gamma: readonly number[];
+  /** Whether columns were standardized with each training fold's own statistics. */
   readonly standardize: boolean;
+  /** Whether an unpenalized intercept was fitted. */
   readonly intercept: boolean;
   /** Which convention `strength` values are on: ridge λ ("lambda") or sparse α ("alpha"). */
   readonly scale: StrengthScale;
+  /** One point per grid value, in ascending strength. */
   readonly curve: readonly CurvePoint[];
   /** The grid point with the smallest mean CV error. */
   readonly minimum: Choice;
@@ -167,6 +182,7 @@ export interface CurveResult {
  * `[Symbol.for("Jupyter.display")]` method; see lib/views/display.ts).
  */
 export interface SweepResult extends CurveResult {
+  /** The fold plan every grid point was scored on (its assignment is exposed for reuse). */
   readonly folds: FoldPlan;
   /** Data fingerprint and requests as given, for the model-choice record (lib/record). */
   readonly provenance: SweepProvenance;
