@@ -111,29 +111,42 @@ export function summarizeData(table: Table, names: readonly string[]): DataSumma
     const column = table.columns.get(name);
     return column === undefined ? [] : [column];
   });
+  const { sha256, ranges } = digestRows(table.nRows, columns);
   return {
     source: table.source,
     rows: table.nRows,
-    columns: columns.map(summarizeColumn),
+    columns: columns.map((column, j) => summarizeColumn(column, ranges[j])),
     missing: { policy: table.missing.policy, droppedLines: [...table.missing.droppedLines] },
     encoding: ROW_ENCODING,
-    sha256: rowsDigest(table.nRows, columns),
+    sha256,
   };
 }
 
-function summarizeColumn(column: Column): ColumnSummary {
+/** A numeric column's [min, max]; null for a category column. */
+type Range = readonly [number, number] | null;
+
+function summarizeColumn(column: Column, range: Range): ColumnSummary {
   if (column.kind === "category") {
     return { name: column.name, kind: "category", levels: [...column.levels] };
   }
-  const values = column.values;
-  let min = Infinity;
-  let max = -Infinity;
-  for (let i = 0; i < values.length; i++) {
-    const v = values[i];
-    if (v < min) min = v;
-    if (v > max) max = v;
-  }
+  const [min, max] = range ?? [Infinity, -Infinity];
   return { name: column.name, kind: "number", min, max };
+}
+
+/** Smallest and largest value of each numeric column (null for categories). */
+function columnRanges(columns: readonly Column[]): Range[] {
+  return columns.map((column) => {
+    if (column.kind === "category") return null;
+    const values = column.values;
+    let min = Infinity;
+    let max = -Infinity;
+    for (let i = 0; i < values.length; i++) {
+      const v = values[i];
+      if (v < min) min = v;
+      if (v > max) max = v;
+    }
+    return [min, max];
+  });
 }
 
 const KIND_BYTE = { number: 0x4e, category: 0x43 } as const; // "N", "C"
@@ -158,6 +171,17 @@ const CHUNK = 1 << 16;
  * ```
  */
 export function rowsDigest(nRows: number, columns: readonly Column[]): string {
+  return digestRows(nRows, columns).sha256;
+}
+
+/**
+ * The digest of `rowsDigest` and each column's range. All-numeric rows (the common case) are
+ * hashed a block of rows at a time and their ranges found in the same read of the columns.
+ */
+function digestRows(
+  nRows: number,
+  columns: readonly Column[],
+): { sha256: string; ranges: Range[] } {
   const hash = createHash("sha256");
   const utf8 = new TextEncoder();
   const out = new ByteWriter((bytes) => hash.update(bytes));
@@ -171,8 +195,8 @@ export function rowsDigest(nRows: number, columns: readonly Column[]): string {
   const numeric = columns.flatMap((c) => (c.kind === "number" ? [c.values] : []));
   if (LITTLE_ENDIAN && numeric.length === columns.length && numeric.length > 0) {
     out.flush();
-    hashNumericRows(nRows, numeric, (bytes) => hash.update(bytes));
-    return hash.digest("hex");
+    const ranges = hashNumericRows(nRows, numeric, (bytes) => hash.update(bytes));
+    return { sha256: hash.digest("hex"), ranges };
   }
   const levelBytes = columns.map((c) =>
     c.kind === "category" ? c.levels.map((level) => utf8.encode(level)) : []
@@ -184,29 +208,44 @@ export function rowsDigest(nRows: number, columns: readonly Column[]): string {
     });
   }
   out.flush();
-  return hash.digest("hex");
+  return { sha256: hash.digest("hex"), ranges: columnRanges(columns) };
 }
 
 /** Whether this machine stores doubles little-endian (then Float64Array bytes are the layout). */
 const LITTLE_ENDIAN = new Uint8Array(Float64Array.of(1).buffer)[7] === 0x3f;
 
-/** Step 4 for all-numeric rows: the same bytes, written a block of rows at a time. */
+/**
+ * Step 4 for all-numeric rows: the same bytes, written a block of rows at a time; returns each
+ * column's [min, max], found while its values are copied.
+ */
 function hashNumericRows(
   nRows: number,
   values: readonly Float64Array[],
   sink: (bytes: Uint8Array) => void,
-): void {
+): Range[] {
   const c = values.length;
   const rowsPerBlock = Math.max(1, Math.floor(CHUNK / (8 * c)));
   const block = new Float64Array(rowsPerBlock * c);
+  const mins = new Float64Array(c).fill(Infinity);
+  const maxes = new Float64Array(c).fill(-Infinity);
   for (let start = 0; start < nRows; start += rowsPerBlock) {
     const m = Math.min(rowsPerBlock, nRows - start);
     for (let j = 0; j < c; j++) {
       const v = values[j];
-      for (let i = 0; i < m; i++) block[i * c + j] = v[start + i];
+      let min = mins[j];
+      let max = maxes[j];
+      for (let i = 0; i < m; i++) {
+        const x = v[start + i];
+        block[i * c + j] = x;
+        if (x < min) min = x;
+        if (x > max) max = x;
+      }
+      mins[j] = min;
+      maxes[j] = max;
     }
     sink(new Uint8Array(block.buffer, 0, m * c * 8));
   }
+  return Array.from(mins, (min, j) => [min, maxes[j]] as const);
 }
 
 /** Little-endian writer into a reused buffer, handing full chunks to a synchronous `sink`. */

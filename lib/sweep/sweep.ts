@@ -11,7 +11,7 @@
  * With `penalty: lasso()` or `elasticNet({ mix })` the sweep runs over α (`alphas`, the 1/(2N)
  * convention; lib/sparse) instead of λ: per training fold a warm-started coordinate-descent
  * path over the α grid of the all-rows problem, scored on the held-out summary. The chosen model
- * is the all-rows path's solution at the chosen α (no exact refit: the exact QR solver is for
+ * is the all-rows path's solution at the chosen α (no exact refit: the exact refinement is for
  * quadratic penalties). GCV and closed-form leave-one-out are ridge identities and are null.
  * Every result says its `scale` ("lambda" or "alpha"); `strength` holds the λ or α value.
  *
