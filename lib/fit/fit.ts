@@ -401,7 +401,7 @@ function targetValues(table: Table, spec: FitSpec): Float64Array {
     }
   }
   const v = col.values;
-  if (v.every((x) => x === v[0])) {
+  if (isConstant(v)) {
     throw new CurbfitError(
       "CONSTANT_TARGET",
       `the target column ${JSON.stringify(spec.target)} has the same value (${
@@ -411,7 +411,13 @@ function targetValues(table: Table, spec: FitSpec): Float64Array {
       { source: table.source, column: spec.target },
     );
   }
-  return Float64Array.from(v);
+  // Read, never written: the table's own column serves (tables are immutable).
+  return v;
+}
+
+function isConstant(values: Float64Array): boolean {
+  for (let i = 1; i < values.length; i++) if (values[i] !== values[0]) return false;
+  return true;
 }
 
 function checkNotConstant(design: Design, sds: Float64Array, means: Float64Array): void {

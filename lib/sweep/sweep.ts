@@ -317,8 +317,12 @@ export function* sweepPrepared(
   }, sweepBundle));
 }
 
-/** Fold index per row, with never-validated rows (−1) in the extra bucket k. */
+/**
+ * Fold index per row, with never-validated rows (−1) in the extra bucket k; the assignment itself
+ * when every row is validated.
+ */
 function bucketOf(assignment: Int32Array, k: number): Int32Array {
+  if (assignment.every((f) => f >= 0)) return assignment;
   return assignment.map((f) => (f < 0 ? k : f));
 }
 
