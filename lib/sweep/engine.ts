@@ -19,6 +19,7 @@ import {
   solutionAt,
   type Spectrum,
   type SpectrumOptions,
+  trainingRss,
 } from "./spectrum.ts";
 import { type LambdaGrid, lambdaGrid } from "./grid.ts";
 import { generalizedCrossValidation } from "./loo.ts";
@@ -95,7 +96,7 @@ export function* crossValidate(
     const sp = decompose(train, options);
     checkScales(sp, names, where);
     foldMse.push(heldOutErrors(sp, validation, lambdas));
-    foldTrainMse.push(Float64Array.from(lambdas, (l) => solutionAt(sp, l).rss / train.count));
+    foldTrainMse.push(Float64Array.from(lambdas, (l) => trainingRss(sp, l) / train.count));
   });
   return { lambdas, full, foldMse, foldTrainMse };
 }

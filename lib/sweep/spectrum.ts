@@ -103,9 +103,17 @@ function asRegression(m: Moments, intercept: boolean): Moments {
 const NULL_SHARE = 1e-12;
 
 /** h_j(λ) = g_j/(e_j + λ), with directions of zero curvature left at 0 (minimum norm). */
-export function spectralWeights(sp: Spectrum, lambda: number): Float64Array {
+export function spectralWeights(
+  sp: Spectrum,
+  lambda: number,
+  out: Float64Array = new Float64Array(sp.e.length),
+): Float64Array {
   const floor = NULL_SHARE * (sp.e[0] ?? 0);
-  return Float64Array.from(sp.e, (e, j) => (e + lambda > floor ? sp.g[j] / (e + lambda) : 0));
+  for (let j = 0; j < out.length; j++) {
+    const e = sp.e[j];
+    out[j] = e + lambda > floor ? sp.g[j] / (e + lambda) : 0;
+  }
+  return out;
 }
 
 /** Everything about the training fit at one λ. */
@@ -121,19 +129,45 @@ export interface SolutionAt {
 export function solutionAt(sp: Spectrum, lambda: number): SolutionAt {
   const h = spectralWeights(sp, lambda);
   const w = coefficientsFrom(sp, h);
-  let df = 0, budget = 0, explained = 0;
+  let df = 0, budget = 0;
   sp.e.forEach((e, j) => {
     if (h[j] === 0) return;
     df += e / (e + lambda);
     budget += h[j] * h[j];
-    explained += h[j] * sp.g[j] * (e + 2 * lambda) / (e + lambda);
   });
   let intercept = 0;
   if (sp.intercept) {
     intercept = sp.meanY;
     for (let q = 0; q < sp.p; q++) intercept -= sp.meanX[q] * w[q];
   }
-  return { w, intercept, df, budget, rss: Math.max(sp.syy - explained, 0) };
+  return { w, intercept, df, budget, rss: rssFrom(sp, h, lambda) };
+}
+
+/**
+ * Training RSS at λ alone, O(p): what the fold loop needs.
+ *
+ * @example
+ * ```ts
+ * import { bucketMoments } from "./moments.ts";
+ * import { decompose, trainingRss } from "./spectrum.ts";
+ * const [m] = bucketMoments(Float64Array.of(0, 1, 2), 1, Float64Array.of(1, 3, 5), Int32Array.of(0, 0, 0), 1);
+ * const sp = decompose(m, { gamma: Float64Array.of(1), standardize: false, intercept: true });
+ * console.log(trainingRss(sp, 0)); // 0
+ * ```
+ */
+export function trainingRss(sp: Spectrum, lambda: number): number {
+  return rssFrom(sp, spectralWeights(sp, lambda), lambda);
+}
+
+/** RSS = S_yy − Σ h_j g_j (e_j + 2λ)/(e_j + λ), floored at 0. */
+function rssFrom(sp: Spectrum, h: Float64Array, lambda: number): number {
+  let explained = 0;
+  for (let j = 0; j < h.length; j++) {
+    if (h[j] === 0) continue;
+    const e = sp.e[j];
+    explained += h[j] * sp.g[j] * (e + 2 * lambda) / (e + lambda);
+  }
+  return Math.max(sp.syy - explained, 0);
 }
 
 function coefficientsFrom(sp: Spectrum, h: Float64Array): Float64Array {
@@ -167,36 +201,32 @@ export function heldOutErrors(
   const p = sp.p;
   const d = p + 1;
   const v = asRegression(validation, sp.intercept);
-  const scaled = (q: number) => sp.metric[q];
+  const m = sp.metric;
   // B = Vᵀ diag(m) S_xx diag(m) V, a = Vᵀ(m ⊙ S_xy), mv = Vᵀ(m ⊙ x̄_v), mt = Vᵀ(m ⊙ x̄_t)
   const sv = new Float64Array(p * p);
-  sp.vectors.forEach((vec, j) => {
-    const t = new Float64Array(p);
+  const t = new Float64Array(p);
+  for (let j = 0; j < p; j++) {
+    const vec = sp.vectors[j];
     for (let r = 0; r < p; r++) {
       let s = 0;
-      for (let q = 0; q < p; q++) s += v.cross[r * d + q] * scaled(q) * vec[q];
-      t[r] = s * scaled(r);
+      for (let q = 0; q < p; q++) s += v.cross[r * d + q] * m[q] * vec[q];
+      t[r] = s * m[r];
     }
-    sp.vectors.forEach((vec2, i) => {
-      if (i > j) return;
+    for (let i = 0; i <= j; i++) {
+      const vec2 = sp.vectors[i];
       let s = 0;
       for (let r = 0; r < p; r++) s += vec2[r] * t[r];
       sv[i * p + j] = s;
       sv[j * p + i] = s;
-    });
-  });
-  const project = (x: (q: number) => number) =>
-    Float64Array.from(sp.vectors, (vec) => {
-      let s = 0;
-      for (let q = 0; q < p; q++) s += vec[q] * scaled(q) * x(q);
-      return s;
-    });
-  const a = project((q) => v.cross[q * d + p]);
-  const mv = project((q) => v.mean[q]);
-  const mt = project((q) => sp.meanX[q]);
+    }
+  }
+  const a = project(sp, (q) => v.cross[q * d + p]);
+  const mv = project(sp, (q) => v.mean[q]);
+  const mt = project(sp, (q) => sp.meanX[q]);
   const syy = v.cross[p * d + p];
+  const h = new Float64Array(p);
   return Float64Array.from(lambdas, (lambda) => {
-    const h = spectralWeights(sp, lambda);
+    spectralWeights(sp, lambda, h);
     let quad = 0, lin = 0, atV = 0, atT = 0;
     for (let i = 0; i < p; i++) {
       if (h[i] === 0) continue;
@@ -212,4 +242,16 @@ export function heldOutErrors(
     const sse = syy - 2 * lin + quad + validation.count * offset * offset;
     return Math.max(sse, 0) / validation.count;
   });
+}
+
+/** Vᵀ(m ⊙ x): each eigenvector's product with the metric-scaled vector x(q). */
+function project(sp: Spectrum, x: (q: number) => number): Float64Array {
+  const out = new Float64Array(sp.p);
+  for (let j = 0; j < sp.p; j++) {
+    const vec = sp.vectors[j];
+    let s = 0;
+    for (let q = 0; q < sp.p; q++) s += vec[q] * sp.metric[q] * x(q);
+    out[j] = s;
+  }
+  return out;
 }
