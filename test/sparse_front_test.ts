@@ -9,7 +9,11 @@
  *   Friedman, Elements of Statistical Learning 2nd ed., §7.10);
  * - ridge and lasso candidates compared on identical folds, with paired per-fold differences;
  * - the two strength conventions cannot be mixed up: λ options with a sparse penalty and α
- *   options with ridge are errors naming the option.
+ *   options with ridge are errors naming the option;
+ * - the reported df: the nonzero count for the lasso (Zou, Hastie & Tibshirani 2007, Ann.
+ *   Statist. 35), tr[Z_A (Z_AᵀZ_A + N·α·(1 − ρ)·I)⁻¹ Z_Aᵀ] for the elastic net (Zou & Hastie
+ *   2005, J. R. Statist. Soc. B 67, recalled from memory; test/sparse_test.ts checks the value
+ *   against rows) in the fit, the curve, the residual SD and a model loaded back from its record.
  * Data: seeded synthetic columns (invented, test/helpers.ts).
  */
 import assert from "node:assert/strict";
@@ -32,6 +36,8 @@ import { sparsePathFromRows, type SparsePenalty } from "../lib/sparse/mod.ts";
 import {
   comparisonChart,
   fittedCurveChart,
+  loadRecord,
+  recordJson,
   shrinkagePathChart,
   validationCurveChart,
 } from "../mod.ts";
@@ -296,4 +302,50 @@ Deno.test("fitted curve of a one-input lasso sweep: curves at three α, each an 
   const sub = (spec.title as { subtitle: string[] }).subtitle.join(" ");
   assert.match(sub, /all-rows coordinate-descent fits at three α/);
   assert.doesNotMatch(json, /λ/);
+});
+
+Deno.test("sparse df in fit, curve, residual SD and a loaded record: the count for the lasso, the shrunken trace for the elastic net", () => {
+  const table = tableFromColumns(COLS);
+  const y = (table.columns.get("y") as { values: Float64Array }).values;
+  for (const penalty of [lasso(), elasticNet({ mix: 0.3 })]) {
+    const s = sweep(COLS, {
+      target: "y",
+      terms: TERMS,
+      penalty,
+      alphas: ALPHAS,
+      folds: { k: 5, seed: 6 },
+      tolerance: TIGHT,
+    });
+    // the all-rows path solved again from the rows of the design: same df per α
+    const design = buildDesign(s.fit.terms, table);
+    const path = sparsePathFromRows(design.block.hi, design.p, y, penalty, {
+      alphas: ALPHAS,
+      tolerance: TIGHT,
+    });
+    const fromRows = [...path.solutions].reverse();
+    s.curve.forEach((c, l) => {
+      const sol = fromRows[l];
+      assert.equal(c.nonzero, sol.nonzero);
+      if (penalty.kind === "lasso") assert.equal(c.df, c.nonzero);
+      else assert.ok(c.nonzero === 0 ? c.df === 0 : c.df < c.nonzero, `α ${c.strength}: ${c.df}`);
+      assert.ok(relErr(c.df, sol.df as number) < 1e-9, `α ${c.strength}`); // measured: equal
+    });
+    const f = s.fit.summary;
+    const chosen = s.curve[s.chosen.index];
+    assert.equal(f.df, chosen.df);
+    assert.equal(f.nonzero, chosen.nonzero);
+    // residual SD = √(RSS / (n − intercept − df)) with the same df (FitSummary's convention)
+    const rsd = Math.sqrt((f.trainMse * f.n) / (f.n - 1 - f.df));
+    assert.ok(relErr(f.residualSd, rsd) < 1e-15, `${f.residualSd} vs ${rsd}`);
+    // fit() at the chosen α reports the same df
+    const direct = fit(COLS, { target: "y", terms: TERMS, penalty, alpha: s.chosen.strength });
+    assert.ok(relErr(direct.summary.df, f.df) < 1e-6); // measured: equal
+    // a model loaded back from its record: the count exactly for the lasso; for the elastic net
+    // recovered from residualSd, trainMse and n (a few rounding errors of n − 1 − df ≈ 80;
+    // measured 3.6e-15)
+    const loaded = loadRecord(recordJson(s)).fit.summary;
+    if (penalty.kind === "lasso") assert.equal(loaded.df, f.df);
+    else assert.ok(Math.abs(loaded.df - f.df) < 1e-12, `${loaded.df} vs ${f.df}`);
+    assert.equal(loaded.nonzero, f.nonzero);
+  }
 });

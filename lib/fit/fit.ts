@@ -104,8 +104,10 @@ export interface FitSummary {
    */
   readonly budget: number;
   /**
-   * Ridge: effective degrees of freedom Σ σ²/(σ²+λ). Sparse: the nonzero count (intercept not
-   * counted).
+   * Effective degrees of freedom, intercept not counted. Ridge: Σ σ²/(σ²+λ). Sparse:
+   * Σ_j μ_j/(μ_j + α(1 − ρ)) over the eigenvalues μ_j of the active block of the (standardized)
+   * Gram matrix (lib/sparse/df.ts) — the nonzero count for the lasso, below it for the elastic
+   * net.
    */
   readonly df: number;
   /** Number of nonzero coefficients. */

@@ -10,9 +10,13 @@
  * iterative refinement is for quadratic penalties only, so there is no exact refit here.
  *
  * Reported: `budget` = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (the penalty's value per unit α; ‖w*‖₁ for the
- * lasso), `df` = the number of nonzero coefficients (an unbiased estimate of the lasso's degrees
- * of freedom: Zou, Hastie & Tibshirani 2007, Ann. Statist. 35; for the elastic net it counts the
- * active columns and is an upper bound).
+ * lasso); `nonzero`, the count of nonzero coefficients; `df`, the effective degrees of freedom
+ * Σ_j μ_j/(μ_j + α(1 − ρ)) over the eigenvalues μ_j of the active block of the standardized Gram
+ * matrix, i.e. tr[Z_A (Z_AᵀZ_A + N·α·(1 − ρ)·I)⁻¹ Z_Aᵀ] (lib/sparse/df.ts derives it in this
+ * convention). For the lasso it is the nonzero count (an unbiased estimate of the lasso's degrees
+ * of freedom: Zou, Hastie & Tibshirani 2007, Ann. Statist. 35); for the elastic net it is below
+ * the count (Zou & Hastie 2005, J. R. Statist. Soc. B 67; recalled from memory). `residualSd` =
+ * √(RSS / (n − intercept − df)), the convention of FitSummary.
  *
  * @module
  */
@@ -22,6 +26,7 @@ import type { Moments } from "../sweep/moments.ts";
 import {
   gramProblem,
   penaltyMix,
+  solutionDf,
   type SparsePath,
   sparsePath,
   type SparsePenalty,
@@ -33,7 +38,8 @@ import type { FitSummary } from "./fit.ts";
 /** What a sparse summary needs besides the solution. */
 export interface SparseSummaryContext {
   readonly target: string;
-  readonly design: Design;
+  /** Names and orders of the design columns (a whole Design, or just these from a summary). */
+  readonly design: Pick<Design, "names" | "orders">;
   readonly penalty: SparsePenalty;
   readonly condition: number;
 }
@@ -109,7 +115,8 @@ export function sparseSummary(
   const wStd = [...sol.standardized];
   const means = path.standardize ? [...path.means] : new Array<number>(w.length).fill(0);
   const n = path.count;
-  const residualDf = n - (path.intercept ? 1 : 0) - sol.nonzero;
+  const df = solutionDf(sol);
+  const residualDf = n - (path.intercept ? 1 : 0) - df;
   return deepFreeze({
     target: context.target,
     n,
@@ -121,7 +128,7 @@ export function sparseSummary(
     gamma: new Array<number>(w.length).fill(1),
     strength: sol.alpha,
     budget: penaltyValue(mix, wStd),
-    df: sol.nonzero,
+    df,
     nonzero: sol.nonzero,
     intercept: sol.intercept,
     coefficients: w,

@@ -183,12 +183,26 @@ function sparseSummary(
     gamma: f.names.map(() => 1),
     strength: f.alpha,
     budget: f.penaltyValue,
-    df: f.nonzero,
+    df: recordedSparseDf(m),
     nonzero: f.nonzero,
     ...scaled,
     refinementSteps: 0,
     descent: { ...f.descent, tolerance: m.penalty.tolerance },
   };
+}
+
+/**
+ * The effective df of a recorded sparse model, which the record does not hold as a field: the
+ * nonzero count for the lasso (exact); for the elastic net recovered from
+ * residualSd = √(n·trainMse / (n − intercept − df)) (lib/fit/sparse_fit.ts), exact up to a few
+ * rounding errors of n − intercept − df (about 10⁻¹⁵ of it), NaN when residualSd is not a
+ * positive finite number.
+ */
+function recordedSparseDf(m: SparseModelSection): number {
+  const f = m.final;
+  if (m.penalty.mix === 1) return f.nonzero;
+  if (!(f.residualSd > 0 && Number.isFinite(f.residualSd))) return NaN;
+  return f.n - (m.intercept ? 1 : 0) - (f.n * f.trainMse) / (f.residualSd * f.residualSd);
 }
 
 /** Summary fields that differ between ridge and sparse models. */

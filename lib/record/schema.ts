@@ -453,7 +453,10 @@ export interface SparseFinalSection {
   readonly sds: readonly number[];
   /** Training mean squared error. */
   readonly trainMse: number;
-  /** √(RSS / (n − intercept − nonzero)). */
+  /**
+   * √(RSS / (n − intercept − df)), df the effective degrees of freedom (lib/sparse/df.ts): the
+   * nonzero count for the lasso, less for the elastic net.
+   */
   readonly residualSd: number;
   /** 2-norm condition number of the centered, standardized design. */
   readonly condition: number;

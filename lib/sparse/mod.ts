@@ -13,7 +13,10 @@
  * J. Stat. Softw. 33), warm starts along a decreasing α path, active-set cycling, sequential
  * strong rules (Tibshirani et al. 2012, JRSS-B 74) always followed by a KKT check over every
  * column. Stopping rule: scaled KKT violation ≤ tolerance (default 10⁻⁷; descent.ts states the
- * scaling). The duality gap is reported per α (path.ts states the formula).
+ * scaling). The duality gap is reported per α (path.ts states the formula), and so are the
+ * nonzero count and the effective degrees of freedom Σ_j μ_j/(μ_j + α(1 − ρ)) over the
+ * eigenvalues μ_j of the active Gram block (df.ts derives it: the count for the lasso, less for
+ * the elastic net).
  *
  * Cautions: cross-validated error is an estimate for data like the held-out rows, not a
  * guarantee; the lasso's choice of columns is unstable when columns are strongly correlated;
@@ -31,6 +34,7 @@
  */
 export { DEFAULT_MIX, elasticNet, lasso, penaltyMix, type SparsePenalty } from "./penalty.ts";
 export { type GramOptions, type GramProblem, gramProblem } from "./gram.ts";
+export { type DfMeter, dfMeter, solutionDf } from "./df.ts";
 export { type AlphaGrid, alphaGrid, alphaMax, DEFAULT_PATH_SIZE } from "./grid.ts";
 export {
   DEFAULT_MAX_PASSES,

@@ -29,6 +29,7 @@ import {
   type AlphaGrid,
   alphaGrid,
   gramProblem,
+  solutionDf,
   type SparsePath,
   sparsePath,
   type SparsePenalty,
@@ -174,8 +175,10 @@ export function* crossValidateSparse(
 
 /**
  * The sparse curve: per α (ascending) the fold errors, mean and SE, and from the all-rows path
- * the training MSE, nonzero count (as df), ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (as budget) and the
- * standardized coefficients. GCV and closed-form LOO are null: they are ridge identities.
+ * the training MSE, effective df (Σ_j μ_j/(μ_j + α(1 − ρ)) over the active Gram block's
+ * eigenvalues, lib/sparse/df.ts: the nonzero count for the lasso), the nonzero count,
+ * ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (as budget) and the standardized coefficients. GCV and closed-form
+ * LOO are null: they are ridge identities.
  *
  * @example
  * ```ts
@@ -195,7 +198,7 @@ export function sparseCurvePoints(cv: SparseCrossValidation, k: number): CurvePo
       foldMse: errs,
       trainMse: sol.trainMse,
       foldTrainMse: mean(cv.foldTrainMse.map((e) => e[l])),
-      df: sol.nonzero,
+      df: solutionDf(sol),
       nonzero: sol.nonzero,
       budget: penaltyValue(cv.penalty.mix, sol.standardized),
       gcv: null,

@@ -154,7 +154,8 @@ function curveTable(source: CurveSource): CellTable {
       : ["λ", "CV error", "± SE", "training MSE", "df", "budget C", ""],
     rows: picked.map((i) => {
       const p = curve[i];
-      return [p.strength, p.cvMean, p.cvSe, p.trainMse, p.df, p.budget, mark(i)];
+      const size = source.scale === "alpha" ? p.nonzero : p.df;
+      return [p.strength, p.cvMean, p.cvSe, p.trainMse, size, p.budget, mark(i)];
     }),
   };
 }

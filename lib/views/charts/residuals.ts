@@ -10,6 +10,7 @@
  */
 import { CurbfitError } from "../../errors/error.ts";
 import type { Fit, TableInput } from "../../fit/fit.ts";
+import { strengthSymbol } from "../../fit/penalty.ts";
 import { toTable } from "../../table/mod.ts";
 import type { Table } from "../../table/types.ts";
 import type { VegaLiteSpec } from "../render.ts";
@@ -66,7 +67,7 @@ export function residualChart(model: Fit, data: Table | TableInput): VegaLiteSpe
       thinned.replace("row order", "row order (left) and by rank (right, both ends kept)"),
     );
   }
-  const lambda = model.summary.strength;
+  const strength = `${strengthSymbol(model.summary.scale)} = ${num(model.summary.strength)}`;
   const line = table.lineOfRow[worst];
   const where = table.source === "rows" || table.source === "columns" ? "row" : "line";
   const scatterRows = scatter.map((i) => ({ fitted: fitted[i], residual: residual[i] }));
@@ -76,7 +77,7 @@ export function residualChart(model: Fit, data: Table | TableInput): VegaLiteSpe
     $schema: SCHEMA_URL,
     title: {
       text: title(
-        `Residuals at λ = ${num(lambda)}: SD ${num(sd)}, largest ${num(residual[worst])} ` +
+        `Residuals at ${strength}: SD ${num(sd)}, largest ${num(residual[worst])} ` +
           `(${where} ${line})`,
       ),
       subtitle: subtitle([
