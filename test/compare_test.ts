@@ -4,7 +4,7 @@
  * one standard error of the minimum. Data: seeded, invented.
  */
 import assert from "node:assert/strict";
-import { column, compare, CurbfitError, kFoldPlan, legendre, ridge, sweep } from "../mod.ts";
+import { column, compare, CurbfitError, kFoldPlan, lasso, legendre, ridge, sweep } from "../mod.ts";
 import { choose } from "../lib/sweep/select.ts";
 import { pairedDifference } from "../lib/sweep/compare.ts";
 import { syntheticColumns } from "./helpers.ts";
@@ -73,6 +73,36 @@ Deno.test("compare rejects fewer than two candidates and repeated names", () => 
         target: "y",
       }),
     /option candidates\[1\]\.name/,
+  );
+});
+
+Deno.test("sweep and compare refuse a fixed strength instead of ignoring it, naming the option", () => {
+  const cols = syntheticColumns(1, 30, 1);
+  const terms = [column("x")];
+  const refused = (run: () => unknown, option: RegExp) =>
+    assert.throws(
+      run,
+      (e) => e instanceof CurbfitError && e.code === "BAD_OPTION" && option.test(e.message),
+    );
+  refused(
+    () => sweep(cols, { target: "y", terms, lambda: 2 } as never),
+    /option lambda: .*lambdas: \[2/,
+  );
+  refused(
+    () => sweep(cols, { target: "y", terms, budget: 1 } as never),
+    /option budget: .*fit\(\)/,
+  );
+  refused(
+    () => sweep(cols, { target: "y", terms, penalty: lasso(), alpha: 0.1 } as never),
+    /option alpha: .*alphas: \[0\.1/,
+  );
+  refused(
+    () =>
+      compare(cols, [
+        { name: "a", terms },
+        { name: "b", terms, penalty: lasso(), lambdas: [1] } as never,
+      ], { target: "y" }),
+    /option candidates\[1\]\.lambdas/,
   );
 });
 

@@ -94,7 +94,13 @@ export function duckdbConnection(connection: DuckDBConnectionLike): SqlConnectio
   return {
     dialect: DUCKDB,
     async run(query) {
-      const reader = await connection.runAndReadAll(query.text, [...query.params]);
+      // The driver binds a whole-number JavaScript number as INTEGER or BIGINT and fails beyond
+      // the BIGINT range (e.g. the double 1e20, a shift of x^10 for x near 100); such a value is
+      // sent as its shortest round-trip text, which the query's CAST reads back exactly.
+      const values = query.params.map((v) =>
+        typeof v === "number" && Number.isInteger(v) && !Number.isSafeInteger(v) ? String(v) : v
+      );
+      const reader = await connection.runAndReadAll(query.text, values);
       return { columns: reader.columnNames(), rows: reader.getRows() };
     },
   };

@@ -1,13 +1,16 @@
 /**
- * `sweepSql`: the cross-validated λ sweep pushed down into a SQL engine. The engine computes
- * per-fold sums with two portable GROUP BY aggregates (lib/sql/query.ts); curbfit turns them
- * into per-fold summaries (lib/sql/sums.ts) and runs the same summary-only engine as every
- * other sweep (lib/stream/finish.ts → lib/sweep/engine.ts). Rows never leave the engine.
+ * `sweepSql`: the cross-validated sweep (λ for ridge, α for lasso / elastic net) pushed down
+ * into a SQL engine. The engine computes per-fold sums with two portable GROUP BY aggregates
+ * (lib/sql/query.ts); curbfit turns them into per-fold summaries (lib/sql/sums.ts) and runs the
+ * same summary-only engine as every other sweep (lib/stream/finish.ts → lib/sweep/engine.ts).
+ * Rows never leave the engine.
  *
  * Queries, in order: the source's column names (no rows); with missing: "drop", a row count;
- * the ranges query (fold counts, MIN/MAX, shifts, NULL checks); the moments query (split when
+ * the ranges query (fold counts, MIN/MAX, shifts, NULL checks); one levels query per category
+ * column of `indicators` terms (its distinct values); the moments query (split when
  * it would exceed `maxAggregates` sums); rarely, one more moments query for a fold whose
- * change of Legendre basis would amplify rounding.
+ * change of Legendre basis would amplify rounding, or whose learned domain of a Legendre factor
+ * inside a product differs from all rows'.
  *
  * @module
  */
@@ -20,18 +23,21 @@ import {
   checkScaleSpec,
   DEFAULT_HASH_FOLDS,
   finishSweep,
+  scaleColumns,
   type ScaleProgressListener,
   type ScaleSweepResult,
   type ScaleSweepSpec,
 } from "../stream/finish.ts";
 import { foldHash } from "../stream/hash.ts";
-import { emptyRanges, type FoldRanges, learnOnRanges } from "../stream/ranges.ts";
+import { addLevelRows, emptyRanges, type FoldRanges, learnOnRanges } from "../stream/ranges.ts";
 import { firstLine } from "../stream/read.ts";
 import type { SqlConnection, SqlRows } from "./connection.ts";
 import {
   columnsQuery,
   countQuery,
-  type FeatureBlock,
+  featureBlocks,
+  levelRows,
+  levelsQuery,
   momentsQueries,
   rangesQuery,
   type SqlQuery,
@@ -93,7 +99,9 @@ export interface SqlSweepResult extends ScaleSweepResult {
 }
 
 /**
- * Sweeps λ over the rows of a SQL table or query, with folds from the hash of `folds.key`.
+ * Sweeps λ (ridge, the default) or α (`penalty: lasso()` / `elasticNet({ mix })`, with
+ * `alphas`) over the rows of a SQL table or query, with folds from the hash of `folds.key`;
+ * the result's `scale` says which.
  *
  * @example
  * ```ts ignore
@@ -113,7 +121,8 @@ export async function sweepSql(
   spec: SqlSweepSpec,
 ): Promise<SqlSweepResult> {
   const inputs = checkScaleSpec(spec);
-  checkSqlTerms(spec);
+  const { categories } = scaleColumns(spec.terms);
+  checkTableOrQuery(spec);
   const key = spec.folds?.key;
   if (key === undefined) {
     throw new CurbfitError(
@@ -127,7 +136,7 @@ export async function sweepSql(
   const seed = spec.folds?.seed ?? DEFAULT_HASH_FOLDS.seed;
   const label = sourceLabel(spec);
   const drop = checkMissing(spec.missing);
-  const used = [...new Set([spec.target, ...inputs, key])];
+  const used = [...new Set([spec.target, ...inputs, ...categories, key])];
   const shape: SqlShape = {
     dialect: connection.dialect,
     table: spec.table === undefined
@@ -175,15 +184,20 @@ export async function sweepSql(
   }
   const total = drop ? Number((await run(countQuery(shape))).rows[0][0]) : NaN;
 
+  // Shifts (column means) for every numeric input outside a plain Legendre term, and the target.
   const shifted = [
     ...new Set([
-      ...spec.terms.filter((t) => t.kind === "column").flatMap((t) => [...t.inputs]),
+      ...spec.terms.filter((t) => t.kind !== "legendre").flatMap((t) => [...t.inputs]),
       spec.target,
     ]),
-  ];
+  ].filter((c) => !categories.includes(c));
   const counted = drop ? [] : used;
   const rangeRows = await run(rangesQuery(shape, inputs, shifted, counted));
   const { ranges, shifts } = readRanges(rangeRows, shape, inputs, shifted, counted, k, label);
+  for (const c of categories) {
+    const levels = levelRows(await run(levelsQuery(shape, c)), shape.partitionBy.length);
+    for (const [level, rows] of levels) addLevelRows(ranges, c, level, rows);
+  }
   const n = ranges.counts.reduce((s, c) => s + c, 0);
   report({ stage: "domains", done: 1, total: 1, rows: n, rowsPerSecond: NaN });
 
@@ -215,7 +229,7 @@ export async function sweepSql(
         rowsPerSecond: n / seconds,
       });
     }
-    return sums.map((s, b) => momentsFromSums(blocks, items, counts[b], s));
+    return sums.map((s, b) => momentsFromSums(blocks, items, counts[b], s, label));
   };
   const buckets = await summaries(terms, false, null, k);
   const aggregated = (performance.now() - momentsStarted) / 1000;
@@ -252,33 +266,6 @@ export async function sweepSql(
     seconds: (performance.now() - started) / 1000,
     rowsPerSecond: n / aggregated,
   }, scaleSweepBundle));
-}
-
-/** Feature blocks of the learned terms and the target, in design order. */
-function featureBlocks(
-  terms: readonly LearnedTerm[],
-  target: string,
-  shifts: ReadonlyMap<string, number>,
-  ranges: FoldRanges,
-  outside: boolean,
-): FeatureBlock[] {
-  const blocks: FeatureBlock[] = terms.map((t) => {
-    const column = t.term.inputs[0];
-    if (t.term.kind === "legendre") {
-      const domain = (t.params as { domain: [number, number] }).domain;
-      const lo = Math.min(...ranges.min.get(column)!), hi = Math.max(...ranges.max.get(column)!);
-      return {
-        kind: "chebyshev",
-        column,
-        degree: t.names.length,
-        domain,
-        outside: outside || lo < domain[0] || hi > domain[1],
-      };
-    }
-    return { kind: "shifted", column, shift: shifts.get(column)! };
-  });
-  blocks.push({ kind: "shifted", column: target, shift: shifts.get(target)! });
-  return blocks;
 }
 
 /** Adds one query's rows (grouped by fold and partition) into per-fold counts and sums. */
@@ -391,17 +378,7 @@ function readRanges(
   return { ranges, shifts };
 }
 
-function checkSqlTerms(spec: SqlSweepSpec): void {
-  spec.terms.forEach((t, i) => {
-    if (t.kind !== "legendre" && t.kind !== "column") {
-      throw new CurbfitError(
-        "BAD_OPTION",
-        `terms[${i}] (${t.label}) is a ${t.kind} term; SQL sweeps take legendre and column terms`,
-        "Use legendre(...) for polynomial terms, or sweep a table in memory or a file stream",
-        { option: `terms[${i}]` },
-      );
-    }
-  });
+function checkTableOrQuery(spec: SqlSweepSpec): void {
   if ((spec.table === undefined) === (spec.query === undefined)) {
     throw new CurbfitError(
       "BAD_OPTION",

@@ -1,5 +1,6 @@
 /**
- * Per-bucket summaries accumulated chunk by chunk. Each chunk of rows becomes a small table, its
+ * Per-bucket summaries accumulated chunk by chunk. Each chunk of rows becomes a small table (its
+ * category columns with sorted levels, as lib/table makes them), its
  * design is built by the learned terms (the same code as the in-memory sweep, so design values
  * are identical), each bucket's chunk summary is computed two-pass (lib/sweep/moments.ts) and
  * merged into the running total with Chan, Golub & LeVeque's pairwise formula. Memory: the
@@ -9,25 +10,44 @@
  */
 import type { LearnedTerm } from "../design/types.ts";
 import { buildDesign } from "../design/mod.ts";
-import type { Column, Table } from "../table/types.ts";
+import type { CategoryColumn, Column, Table } from "../table/types.ts";
 import { bucketMoments, emptyMoments, mergeMoments, type Moments } from "../sweep/moments.ts";
 
 /**
- * Rows of numeric columns held until they are summarized.
+ * The values of one category column in a chunk: a code per row indexing `levels`.
+ *
+ * @example
+ * ```ts
+ * import type { ChunkCategory } from "./accumulate.ts";
+ * const site: ChunkCategory = { levels: ["north", "east"], codes: Int32Array.of(1, 0, 0) };
+ * ```
+ */
+export interface ChunkCategory {
+  /** Levels in the order the reader first met them (not sorted; may hold levels of earlier chunks). */
+  readonly levels: readonly string[];
+  /** Index into `levels` of each row (the first `size` entries are rows). */
+  readonly codes: Int32Array;
+}
+
+/**
+ * Rows of numeric and category columns held until they are summarized.
  *
  * @example
  * ```ts
  * import type { Chunk } from "./accumulate.ts";
  * const chunk: Chunk = {
- *   size: 1, columns: new Map([["y", Float64Array.of(2)]]), bucket: Int32Array.of(0), lines: Int32Array.of(2),
+ *   size: 1, columns: new Map([["y", Float64Array.of(2)]]), categories: new Map(),
+ *   bucket: Int32Array.of(0), lines: Int32Array.of(2),
  * };
  * ```
  */
 export interface Chunk {
   /** Rows filled. */
   readonly size: number;
-  /** Values by column name (the first `size` entries are rows). */
+  /** Values of numeric columns by name (the first `size` entries are rows). */
   readonly columns: ReadonlyMap<string, Float64Array>;
+  /** Category columns by name. */
+  readonly categories: ReadonlyMap<string, ChunkCategory>;
   /** Bucket of each row (−1: skip). */
   readonly bucket: Int32Array;
   /** Source line of each row, for messages. */
@@ -47,6 +67,7 @@ export interface Chunk {
  * acc.add({
  *   size: 4,
  *   columns: new Map([["x", Float64Array.of(0, 1, 2, 3)], ["y", Float64Array.of(1, 2, 2, 4)]]),
+ *   categories: new Map(),
  *   bucket: Int32Array.of(0, 1, 0, 1), lines: Int32Array.of(2, 3, 4, 5),
  * });
  * console.log(acc.totals().map((m) => m.count)); // [ 2, 2 ]
@@ -73,6 +94,9 @@ export class FoldAccumulator {
     const columns = new Map<string, Column>();
     for (const [name, values] of chunk.columns) {
       columns.set(name, { kind: "number", name, values: values.subarray(0, n) });
+    }
+    for (const [name, category] of chunk.categories) {
+      columns.set(name, sortedCategory(name, category, n));
     }
     const table: Table = {
       nRows: n,
@@ -104,4 +128,19 @@ export class FoldAccumulator {
   bytes(): number {
     return this.#totals.reduce((s, m) => s + m.mean.byteLength + m.cross.byteLength, 0);
   }
+}
+
+/**
+ * The first n rows of a chunk's category column as lib/table stores one: the levels those rows
+ * use, sorted by UTF-16 code units, and codes renumbered to match. A level of the data that the
+ * terms did not learn is then reported by `indicators` itself (UNKNOWN_LEVEL, naming its line).
+ */
+function sortedCategory(name: string, category: ChunkCategory, n: number): CategoryColumn {
+  const used = new Uint8Array(category.levels.length);
+  for (let i = 0; i < n; i++) used[category.codes[i]] = 1;
+  const levels = category.levels.filter((_, code) => used[code] === 1).sort();
+  const slot = new Map(levels.map((level, i) => [level, i]));
+  const renumber = Int32Array.from(category.levels, (level) => slot.get(level) ?? -1);
+  const codes = Int32Array.from(category.codes.subarray(0, n), (code) => renumber[code]);
+  return { kind: "category", name, levels, codes };
 }

@@ -3,24 +3,41 @@
  * training and held-out summaries are mapped into the basis of terms learned on its training
  * rows (from ranges, lib/stream/ranges.ts), or recomputed by one more pass over the data when
  * that change of basis would amplify rounding (as the in-memory sweep re-reads rows); then the
- * summary-only engine (lib/sweep/engine.ts) scores the λ grid, the rule picks λ, and the chosen
- * model is fitted from the all-rows summary (lib/fit/summary_fit.ts).
+ * summary-only engine (lib/sweep/engine.ts) scores the grid, the rule picks a strength, and the
+ * chosen model comes from the all-rows summary (lib/fit/summary_fit.ts). Ridge scores a λ grid
+ * through one eigendecomposition per training fold and fits the chosen λ from the co-moments;
+ * lasso / elastic net run a coordinate-descent path over the α grid per training fold
+ * (`crossValidateSparse`), and the chosen model is the all-rows path's solution at the chosen α —
+ * both exactly as the in-memory `sweep` does on the same fold summaries.
  *
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
 import { deepFreeze } from "../common/freeze.ts";
 import type { LearnedTerm, Term } from "../design/types.ts";
-import type { FitSpec } from "../fit/fit.ts";
-import { fitFromMoments, summaryPenalty } from "../fit/summary_fit.ts";
-import { penaltyWeights, ridge } from "../fit/penalty.ts";
+import type { Fit, FitSpec } from "../fit/fit.ts";
+import { fitFromMoments, fitFromSparsePath } from "../fit/summary_fit.ts";
+import {
+  checkStrengthOptions,
+  isSparse,
+  penaltyWeights,
+  ridge,
+  strengthScale,
+} from "../fit/penalty.ts";
+import type { AlphaGrid } from "../sparse/mod.ts";
 import { emptyMoments, mergeMoments, type Moments, removeMoments } from "../sweep/moments.ts";
 import { basisChange, changeMoments } from "../sweep/basis.ts";
-import { crossValidate, curvePoints, type FoldSummarySource } from "../sweep/engine.ts";
+import {
+  crossValidate,
+  crossValidateSparse,
+  curvePoints,
+  type FoldSummarySource,
+  sparseCurvePoints,
+} from "../sweep/engine.ts";
 import type { LambdaGrid } from "../sweep/grid.ts";
 import { runStepsAsync } from "../common/steps.ts";
 import { type Choice, choose, type SelectionRule } from "../sweep/select.ts";
-import type { CurveResult, Progress } from "../sweep/sweep.ts";
+import { type CurvePoint, type CurveResult, edgeNotes, type Progress } from "../sweep/sweep.ts";
 import { FOLD_HASH } from "./hash.ts";
 import { checkFoldsFilled, type FoldRanges, learnOnRanges } from "./ranges.ts";
 
@@ -46,7 +63,10 @@ export interface HashFoldRequest {
 }
 
 /**
- * What a sweep over data that is not in memory takes: a fit spec without λ, grid, folds, rule.
+ * What a sweep over data that is not in memory takes: a fit spec without a strength, plus the
+ * grid, folds and rule. The penalty decides the grid: `ridge()` (default) sweeps `lambdas` (λ,
+ * sum-of-squares units); `lasso()` / `elasticNet({ mix })` sweep `alphas` (α, the 1/(2N)
+ * convention) and take `tolerance`. Options of the other convention are a `BAD_OPTION`.
  *
  * @example
  * ```ts
@@ -55,12 +75,19 @@ export interface HashFoldRequest {
  * const spec: ScaleSweepSpec = { target: "y", terms: [legendre("x", 8)], folds: { key: "id" } };
  * ```
  */
-export interface ScaleSweepSpec extends Omit<FitSpec, "lambda" | "budget"> {
-  /** λ values, or bounds/count of an automatic log-spaced grid (default 100 points). */
+export interface ScaleSweepSpec extends Omit<FitSpec, "lambda" | "budget" | "alpha"> {
+  /**
+   * Ridge only: λ values, or bounds/count of an automatic log-spaced grid (default 100 points).
+   */
   readonly lambdas?: LambdaGrid;
+  /**
+   * Lasso / elastic net only: α values, or the length and depth of an automatic path from the
+   * all-rows α_max down (default 100 values; lib/sparse/grid.ts).
+   */
+  readonly alphas?: AlphaGrid;
   /** Fold count, hash seed and key column (default 10 folds, seed 1). */
   readonly folds?: HashFoldRequest;
-  /** How to pick λ from the curve (default "min"). */
+  /** How to pick λ or α from the curve (default "min"). */
   readonly rule?: SelectionRule;
 }
 
@@ -130,8 +157,10 @@ export interface HashFolds {
  */
 export interface ScaleSweepResult extends CurveResult {
   /**
-   * Hash folds. `curve` is per λ as in `sweep`, but closed-form leave-one-out is not computed
-   * (`loo` is null), and `fit` is fitted from the all-rows summary (lib/fit/summary_fit.ts).
+   * Hash folds. `curve` is per λ or α (see `scale`) as in `sweep`, but closed-form
+   * leave-one-out is not computed (`loo` is null), and `fit` comes from the all-rows summary
+   * (lib/fit/summary_fit.ts): ridge solved from its co-moments, lasso / elastic net the
+   * all-rows coordinate-descent solution at the chosen α.
    */
   readonly folds: HashFolds;
   /** Where the rows came from (file path, "stream", a SQL table). */
@@ -169,8 +198,10 @@ export const CAUTIONS: readonly string[] = Object.freeze([
 export const DEFAULT_HASH_FOLDS = { k: 10, seed: 1 } as const;
 
 /**
- * Checks the parts of a spec that do not need the data: target, terms (numeric inputs only),
- * fold request. Returns the term input columns.
+ * Checks the parts of a spec that do not need the data: strength options that match the
+ * penalty (lib/fit/penalty.ts `checkStrengthOptions`), target, terms (no column read both as
+ * numbers and as categories), fold request. Returns the numeric input columns of the terms
+ * (`scaleColumns` also lists the category ones).
  *
  * @example
  * ```ts
@@ -180,7 +211,7 @@ export const DEFAULT_HASH_FOLDS = { k: 10, seed: 1 } as const;
  * ```
  */
 export function checkScaleSpec(spec: ScaleSweepSpec): string[] {
-  summaryPenalty(spec?.penalty);
+  checkStrengthOptions(spec?.penalty ?? ridge(), { ...spec });
   if (typeof spec?.target !== "string" || spec.target === "") {
     throw new CurbfitError(
       "BAD_OPTION",
@@ -199,16 +230,7 @@ export function checkScaleSpec(spec: ScaleSweepSpec): string[] {
       { option: "terms" },
     );
   }
-  spec.terms.forEach((t: Term, i) => {
-    if (JSON.stringify(t?.spec ?? null).includes('"kind":"indicators"')) {
-      throw new CurbfitError(
-        "BAD_OPTION",
-        `terms[${i}] (${t.label}) reads a category column, which sweeps over streams and SQL ` +
-          "do not support yet",
-        "Use numeric terms (legendre, column, power, products of them), or load the table in memory",
-        { option: `terms[${i}]` },
-      );
-    }
+  spec.terms.forEach((t: Term) => {
     if (t.inputs.includes(spec.target)) {
       throw new CurbfitError(
         "BAD_OPTION",
@@ -218,6 +240,17 @@ export function checkScaleSpec(spec: ScaleSweepSpec): string[] {
       );
     }
   });
+  const { numeric, categories } = scaleColumns(spec.terms);
+  const both = categories.find((c) => numeric.includes(c));
+  if (both !== undefined) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `column ${JSON.stringify(both)} is read as categories by indicators(${both}) and as ` +
+        "numbers by another term",
+      "A column is either numeric or a category: use one kind of term for it",
+      { option: "terms", column: both },
+    );
+  }
   const folds = spec.folds ?? {};
   if (folds.key !== undefined && (typeof folds.key !== "string" || folds.key === "")) {
     throw new CurbfitError(
@@ -229,7 +262,7 @@ export function checkScaleSpec(spec: ScaleSweepSpec): string[] {
       },
     );
   }
-  return [...new Set(spec.terms.flatMap((t) => [...t.inputs]))];
+  return numeric;
 }
 
 /**
@@ -260,7 +293,8 @@ export interface FinishInput {
 }
 
 /**
- * Scores the grid from fold summaries, chooses λ and fits the chosen model.
+ * Scores the grid from fold summaries (λ for ridge, α for lasso / elastic net), chooses a
+ * strength and makes the chosen model from the all-rows summary.
  *
  * @example
  * ```ts
@@ -291,8 +325,9 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
       folds.push({ train, validation, where });
     }
   }
+  const penalty = spec.penalty ?? ridge();
   const options = {
-    gamma: penaltyWeights(spec.penalty ?? ridge(), orders),
+    gamma: penaltyWeights(penalty, orders),
     standardize: spec.standardize ?? true,
     intercept: spec.intercept ?? true,
   };
@@ -310,14 +345,28 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
     if (p.stage === "summaries") return;
     input.report({ stage: p.stage, done: p.done, total: p.total, rows: n, rowsPerSecond: NaN });
   };
-  const cv = await runStepsAsync(crossValidate(source, names, options, spec.lambdas, report));
-  const curve = curvePoints(cv, k, null);
+  let curve: CurvePoint[];
+  let finalModel: (chosen: Choice) => Fit;
+  if (isSparse(penalty)) {
+    const sparse = { penalty, ...options, tolerance: spec.tolerance };
+    const cv = await runStepsAsync(crossValidateSparse(source, names, sparse, spec.alphas, report));
+    curve = sparseCurvePoints(cv, k);
+    // Curve index l is path solution L − 1 − l (the path runs in decreasing α).
+    const last = curve.length - 1;
+    finalModel = (c) => fitFromSparsePath(all, terms, spec, cv.full, last - c.index);
+  } else {
+    const cv = await runStepsAsync(crossValidate(source, names, options, spec.lambdas, report));
+    curve = curvePoints(cv, k, null);
+    finalModel = (c) => fitFromMoments(all, terms, { ...spec, lambda: c.strength });
+  }
+  const scale = strengthScale(penalty);
+  const grid = curve.map((c) => c.strength);
   const means = curve.map((c) => c.cvMean);
   const ses = curve.map((c) => c.cvSe);
-  const minimum = choose("min", cv.lambdas, means, ses);
-  const chosen = choose(spec.rule ?? "min", cv.lambdas, means, ses);
+  const minimum = choose("min", grid, means, ses);
+  const chosen = choose(spec.rule ?? "min", grid, means, ses);
   report({ stage: "refit", done: 0, total: 1 });
-  const fit = fitFromMoments(all, terms, { ...spec, lambda: chosen.strength });
+  const fit = finalModel(chosen);
   report({ stage: "refit", done: 1, total: 1 });
   return deepFreeze({
     target: spec.target,
@@ -327,7 +376,7 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
     gamma: Array.from(options.gamma),
     standardize: options.standardize,
     intercept: options.intercept,
-    scale: "lambda",
+    scale,
     folds: {
       hash: FOLD_HASH,
       seed: input.seed,
@@ -338,7 +387,7 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
     curve,
     minimum,
     chosen,
-    notes: edgeNote(minimum, cv.lambdas.length),
+    notes: edgeNotes(minimum, grid.length, scale, scale === "alpha" ? spec.alphas : spec.lambdas),
     fit,
     source: input.source,
     passes,
@@ -346,12 +395,33 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
   });
 }
 
-/** A note when the smallest CV error sits on an end of the grid. */
-function edgeNote(minimum: Choice, count: number): string[] {
-  if (count < 2 || (minimum.index !== 0 && minimum.index !== count - 1)) return [];
-  const end = minimum.index === 0 ? "smallest" : "largest";
-  return [
-    `The smallest CV error is at the ${end} λ of the grid (${minimum.strength.toPrecision(3)}); ` +
-    "extend the grid past it to see whether the error keeps falling.",
-  ];
+/**
+ * The columns the terms read, split by kind: `categories` are the columns of `indicators` terms
+ * (also inside products), `numeric` every other input. Found from each term's JSON `spec`; a
+ * column may appear in both lists (checkScaleSpec refuses that).
+ *
+ * @example
+ * ```ts
+ * import { scaleColumns } from "./finish.ts";
+ * import { column, indicators, product } from "../design/mod.ts";
+ * console.log(scaleColumns([product(column("dose"), indicators("site"))]));
+ * // { numeric: [ "dose" ], categories: [ "site" ] }
+ * ```
+ */
+export function scaleColumns(
+  terms: readonly Term[],
+): { numeric: string[]; categories: string[] } {
+  const numeric = new Set<string>();
+  const categories = new Set<string>();
+  const visit = (spec: unknown): void => {
+    if (typeof spec !== "object" || spec === null) return;
+    const s = spec as Record<string, unknown>;
+    if (typeof s.column === "string") {
+      (s.kind === "indicators" ? categories : numeric).add(s.column);
+    }
+    Object.values(s).forEach(visit);
+  };
+  terms.forEach((t) => visit(t.spec));
+  for (const t of terms) for (const c of t.inputs) if (!categories.has(c)) numeric.add(c);
+  return { numeric: [...numeric], categories: [...categories] };
 }

@@ -1,9 +1,12 @@
 /**
- * Per-fold row counts and column ranges, and terms learned from ranges alone. Everything a term
- * learns from numeric rows is their [min, max] (Legendre domains; the ranges that count rows
- * outside them), so terms learned on a two-row *witness table* holding each column's min and
- * max equal terms learned on the rows themselves. Fold f's training ranges are the ranges over
- * all other folds, so every fold's terms come from k ranges per column, without the rows.
+ * Per-fold row counts and column ranges, the levels of category columns, and terms learned from
+ * these alone. Everything a term learns from numeric rows is their [min, max] (Legendre domains;
+ * the ranges that count rows outside them), and everything `indicators` learns is the sorted list
+ * of levels over all rows, so terms learned on a two-row *witness table* holding each numeric
+ * column's min and max and each category column's levels equal terms learned on the rows
+ * themselves. Fold f's training ranges are the ranges over all other folds, so every fold's terms
+ * come from k ranges per column, without the rows (levels are the same for every fold, as in the
+ * in-memory sweep, where they come from the whole table).
  *
  * @module
  */
@@ -11,27 +14,35 @@ import { CurbfitError } from "../errors/error.ts";
 import type { LearnedTerm, Term } from "../design/types.ts";
 import { learnTerms } from "../design/mod.ts";
 import type { Column, Table } from "../table/types.ts";
+import type { Chunk } from "./accumulate.ts";
 
 /**
- * Row counts and per-column [min, max] of each fold (index = fold).
+ * Row counts and per-column [min, max] of each fold (index = fold), and the levels of category
+ * columns over all folds.
  *
  * @example
  * ```ts
  * import { emptyRanges, type FoldRanges } from "./ranges.ts";
- * const r: FoldRanges = emptyRanges(["x"], 3);
- * console.log(r.k, r.counts); // 3 Float64Array [0, 0, 0]
+ * const r: FoldRanges = emptyRanges(["x"], 3, ["site"]);
+ * console.log(r.k, r.counts, r.levels.get("site")); // 3 Float64Array [0, 0, 0] Map(0) {}
  * ```
  */
 export interface FoldRanges {
+  /** Number of folds. */
   readonly k: number;
+  /** Rows in each fold. */
   readonly counts: Float64Array;
-  /** Per column name: minima and maxima by fold (±Infinity for an empty fold). */
+  /** Per numeric column name: minima by fold (+Infinity for an empty fold). */
   readonly min: ReadonlyMap<string, Float64Array>;
+  /** Per numeric column name: maxima by fold (−Infinity for an empty fold). */
   readonly max: ReadonlyMap<string, Float64Array>;
+  /** Per category column name: rows of each level seen, over all folds (in order first seen). */
+  readonly levels: ReadonlyMap<string, ReadonlyMap<string, number>>;
 }
 
 /**
- * Empty ranges for `columns` over k folds, to be filled by {@link addToRanges}.
+ * Empty ranges for numeric `columns` and category columns `categories` over k folds, to be
+ * filled by {@link addToRanges}, {@link addChunkToRanges} and {@link addLevelRows}.
  *
  * @example
  * ```ts
@@ -41,12 +52,17 @@ export interface FoldRanges {
  * console.log(r.counts, r.min.get("x")); // Float64Array [0, 1] Float64Array [Infinity, 3.5]
  * ```
  */
-export function emptyRanges(columns: readonly string[], k: number): FoldRanges {
+export function emptyRanges(
+  columns: readonly string[],
+  k: number,
+  categories: readonly string[] = [],
+): FoldRanges {
   return {
     k,
     counts: new Float64Array(k),
     min: new Map(columns.map((c) => [c, new Float64Array(k).fill(Infinity)])),
     max: new Map(columns.map((c) => [c, new Float64Array(k).fill(-Infinity)])),
+    levels: new Map(categories.map((c) => [c, new Map<string, number>()])),
   };
 }
 
@@ -68,6 +84,81 @@ export function addToRanges(r: FoldRanges, f: number, values: ReadonlyMap<string
     if (v < lo[f]) lo[f] = v;
     if (v > hi[f]) hi[f] = v;
   }
+}
+
+/**
+ * Counts the rows of a chunk (read by lib/stream/read.ts) into their folds: the [min, max] of
+ * every numeric column of `r` and the rows of every level of its category columns.
+ *
+ * @example
+ * ```ts
+ * import { addChunkToRanges, emptyRanges } from "./ranges.ts";
+ * const r = emptyRanges(["x"], 2, ["site"]);
+ * addChunkToRanges(r, {
+ *   size: 3,
+ *   columns: new Map([["x", Float64Array.of(4, -1, 2)]]),
+ *   categories: new Map([["site", { levels: ["b", "a"], codes: Int32Array.of(0, 1, 0) }]]),
+ *   bucket: Int32Array.of(0, 1, 1),
+ *   lines: Int32Array.of(2, 3, 4),
+ * });
+ * console.log(r.counts, r.max.get("x"), r.levels.get("site")); // Float64Array [1, 2] Float64Array [4, 2] Map(2) { "b" => 2, "a" => 1 }
+ * ```
+ */
+export function addChunkToRanges(r: FoldRanges, chunk: Chunk): void {
+  const counts = r.counts as Float64Array;
+  for (let i = 0; i < chunk.size; i++) counts[chunk.bucket[i]]++;
+  for (const [name, lo] of r.min) {
+    const v = chunk.columns.get(name)!;
+    const hi = r.max.get(name)!;
+    for (let i = 0; i < chunk.size; i++) {
+      const f = chunk.bucket[i];
+      if (v[i] < lo[f]) lo[f] = v[i];
+      if (v[i] > hi[f]) hi[f] = v[i];
+    }
+  }
+  for (const name of r.levels.keys()) {
+    const { levels, codes } = chunk.categories.get(name)!;
+    const rows = new Float64Array(levels.length);
+    for (let i = 0; i < chunk.size; i++) rows[codes[i]]++;
+    rows.forEach((count, code) => {
+      if (count > 0) addLevelRows(r, name, levels[code], count);
+    });
+  }
+}
+
+/**
+ * Adds `rows` rows of `level` to category column `column` (a column not yet in `r` is added).
+ *
+ * @example
+ * ```ts
+ * import { addLevelRows, emptyRanges } from "./ranges.ts";
+ * const r = emptyRanges([], 1);
+ * addLevelRows(r, "site", "north", 12);
+ * addLevelRows(r, "site", "north", 3);
+ * console.log(r.levels.get("site")); // Map(1) { "north" => 15 }
+ * ```
+ */
+export function addLevelRows(r: FoldRanges, column: string, level: string, rows: number): void {
+  const all = r.levels as Map<string, Map<string, number>>;
+  let seen = all.get(column);
+  if (seen === undefined) all.set(column, seen = new Map());
+  seen.set(level, (seen.get(level) ?? 0) + rows);
+}
+
+/**
+ * The levels of a category column in the order lib/table gives them (and so `indicators`):
+ * sorted by UTF-16 code units, the first being the reference level.
+ *
+ * @example
+ * ```ts
+ * import { addLevelRows, emptyRanges, sortedLevels } from "./ranges.ts";
+ * const r = emptyRanges([], 1);
+ * for (const level of ["b", "a", "B", "10", "9"]) addLevelRows(r, "g", level, 1);
+ * console.log(sortedLevels(r, "g")); // [ "10", "9", "B", "a", "b" ]
+ * ```
+ */
+export function sortedLevels(r: FoldRanges, column: string): string[] {
+  return [...(r.levels.get(column)?.keys() ?? [])].sort();
 }
 
 /** [min, max] of a column over all folds except `skip` (−1: over all folds). */
@@ -105,7 +196,8 @@ export function checkFoldsFilled(r: FoldRanges, source: string): void {
 
 /**
  * A two-row table whose numeric columns take the given [min, max] (row 0 the min, row 1 the
- * max): learning on it equals learning on rows with those ranges.
+ * max) and whose category columns have the given levels (already sorted): learning on it equals
+ * learning on rows with those ranges and levels.
  *
  * @example
  * ```ts
@@ -117,14 +209,18 @@ export function checkFoldsFilled(r: FoldRanges, source: string): void {
 export function witnessTable(
   ranges: ReadonlyMap<string, readonly [number, number]>,
   source: string,
+  levels: ReadonlyMap<string, readonly string[]> = new Map(),
 ): Table {
   const columns = new Map<string, Column>();
   for (const [name, [lo, hi]] of ranges) {
     columns.set(name, { kind: "number", name, values: Float64Array.of(lo, hi) });
   }
+  for (const [name, sorted] of levels) {
+    columns.set(name, { kind: "category", name, levels: sorted, codes: new Int32Array(2) });
+  }
   return {
     nRows: 2,
-    names: [...ranges.keys()],
+    names: [...columns.keys()],
     columns,
     source,
     lineOfRow: Int32Array.of(0, 0),
@@ -133,7 +229,9 @@ export function witnessTable(
 }
 
 /**
- * Terms learned on the rows of all folds except `skip` (−1: all rows), from the ranges alone.
+ * Terms learned on the rows of all folds except `skip` (−1: all rows), from the ranges alone;
+ * category levels are those of all rows whatever `skip` is (as in the in-memory sweep). Ranges
+ * of no rows at all are refused first ({@link checkFoldsFilled}): nothing can be learned.
  *
  * @example
  * ```ts
@@ -151,7 +249,9 @@ export function learnOnRanges(
   skip: number,
   source: string,
 ): readonly LearnedTerm[] {
+  if (r.counts.every((c) => c === 0)) checkFoldsFilled(r, source);
   const ranges = new Map<string, [number, number]>();
   for (const name of r.min.keys()) ranges.set(name, rangeOver(r, name, skip));
-  return learnTerms(terms, witnessTable(ranges, source));
+  const levels = new Map([...r.levels.keys()].map((name) => [name, sortedLevels(r, name)]));
+  return learnTerms(terms, witnessTable(ranges, source, levels));
 }

@@ -1,14 +1,17 @@
 /**
- * Reading a CSV or NDJSON source record by record into chunks of numeric rows, each row with its
- * fold from the fold hash. Only the named columns are converted. Values follow the table
- * loaders' rules (lib/table/README.md): missing tokens `""`, `NA`, `NaN`, `null`; decimal
- * literals only; finite; magnitude below 2^500. A bad record either stops the read with a
- * CurbfitError naming its line (policy "error") or is dropped and counted (policy "drop").
+ * Reading a CSV or NDJSON source record by record into chunks of rows, each row with its fold
+ * from the fold hash. Only the named columns are converted: numeric columns to float64, category
+ * columns to level codes. Values follow the table loaders' rules (lib/table/README.md): missing
+ * tokens `""`, `NA`, `NaN`, `null`; decimal literals only; finite; magnitude below 2^500;
+ * category text kept verbatim (a JSON number becomes its JavaScript text, as in `tableFromRows`).
+ * A bad record either stops the read with a CurbfitError naming its line (policy "error") or is
+ * dropped and counted (policy "drop").
  *
  * @module
  */
 import { CurbfitError, type ErrorCode } from "../errors/error.ts";
 import { CsvTokenizer } from "../table/csv_tokenizer.ts";
+import { checkHeaderSeparator, DEFAULT_SEPARATOR, separatorName } from "../table/separator.ts";
 import {
   isInfinityWord,
   isMissingToken,
@@ -53,7 +56,7 @@ export type StreamFormat = "csv" | "ndjson";
  * import type { ReadPlan } from "./read.ts";
  * import { foldHash } from "./hash.ts";
  * const plan: ReadPlan = {
- *   format: "csv", columns: ["x", "y"], key: "id", hash: foldHash(1, 5),
+ *   format: "csv", columns: ["x", "y"], categories: ["site"], key: "id", hash: foldHash(1, 5),
  *   missing: "drop", malformed: "error", chunkRows: 8192, label: "data.csv",
  * };
  * ```
@@ -62,6 +65,8 @@ export interface ReadPlan {
   readonly format: StreamFormat;
   /** Numeric columns to convert (target and term inputs). */
   readonly columns: readonly string[];
+  /** Category columns to read as text levels (inputs of `indicators`); default none. */
+  readonly categories?: readonly string[];
   /** Key column hashed into folds, or null to hash the 0-based data record number. */
   readonly key: string | null;
   readonly hash: FoldHash;
@@ -70,6 +75,8 @@ export interface ReadPlan {
   readonly chunkRows: number;
   /** Label for messages. */
   readonly label: string;
+  /** CSV field separator, already checked (lib/table/options.ts); default ",". */
+  readonly fieldSeparator?: string;
 }
 
 /**
@@ -142,11 +149,36 @@ class BadRecord {
   ) {}
 }
 
+/** One category column being read: codes of the current chunk, levels by first appearance. */
+class LevelCodes {
+  readonly levels: string[] = [];
+  readonly codes: Int32Array;
+  readonly #codeOf = new Map<string, number>();
+
+  constructor(rows: number) {
+    this.codes = new Int32Array(rows);
+  }
+
+  /** Stores the level of row `row`. */
+  set(row: number, level: string): void {
+    let code = this.#codeOf.get(level);
+    if (code === undefined) {
+      code = this.levels.length;
+      // A copy, so that a kept level does not hold on to the text piece it was cut from.
+      const own = (" " + level).slice(1);
+      this.#codeOf.set(own, code);
+      this.levels.push(own);
+    }
+    this.codes[row] = code;
+  }
+}
+
 /** Collects converted rows into a chunk and hands full chunks on. */
 class RowSink {
   readonly #plan: ReadPlan;
   readonly #onChunk: (chunk: Chunk) => void;
   readonly #columns: Map<string, Float64Array>;
+  readonly #categories: Map<string, LevelCodes>;
   readonly #bucket: Int32Array;
   readonly #lines: Int32Array;
   readonly #dropped: DroppedRecord[] = [];
@@ -160,6 +192,9 @@ class RowSink {
     this.#plan = plan;
     this.#onChunk = onChunk;
     this.#columns = new Map(plan.columns.map((c) => [c, new Float64Array(plan.chunkRows)]));
+    this.#categories = new Map(
+      (plan.categories ?? []).map((c) => [c, new LevelCodes(plan.chunkRows)]),
+    );
     this.#bucket = new Int32Array(plan.chunkRows);
     this.#lines = new Int32Array(plan.chunkRows);
   }
@@ -172,6 +207,7 @@ class RowSink {
       for (const name of this.#plan.columns) {
         this.#columns.get(name)![row] = toNumber(value(name), name);
       }
+      for (const [name, codes] of this.#categories) codes.set(row, toLevel(value(name), name));
       const x = this.#plan.key === null
         ? reduceKey(index)
         : toKey(value(this.#plan.key), this.#plan.key);
@@ -209,6 +245,7 @@ class RowSink {
     this.#onChunk({
       size: this.#size,
       columns: this.#columns,
+      categories: this.#categories,
       bucket: this.#bucket,
       lines: this.#lines,
     });
@@ -273,6 +310,23 @@ function toNumber(raw: unknown, column: string): number {
     );
   }
   return v;
+}
+
+/** A category level from CSV text or a JSON value, or a BadRecord (as lib/table reads one). */
+function toLevel(raw: unknown, column: string): string {
+  if (raw === null || raw === undefined) throw missing(column);
+  if (typeof raw === "string") {
+    if (isMissingToken(raw)) throw missing(column);
+    return raw;
+  }
+  if (typeof raw === "number" && Number.isFinite(raw)) return String(raw);
+  throw new BadRecord(
+    typeof raw === "number" ? "NOT_FINITE" : "BAD_NUMBER",
+    "malformed",
+    `the value ${JSON.stringify(raw)?.slice(0, 40)} is neither text nor a finite number`,
+    'Write the level as text, or pass malformed: "drop" to leave bad records out (they are counted)',
+    column,
+  );
 }
 
 /** key mod P of a key value, or a BadRecord. */
@@ -437,15 +491,18 @@ function csvParser(plan: ReadPlan, sink: RowSink): Parser {
   let header: string[] | undefined;
   let index = new Map<string, number>();
   let started = false;
+  const separator = plan.fieldSeparator ?? DEFAULT_SEPARATOR;
   const tokenizer = new CsvTokenizer({
     source: plan.label,
+    separator,
     columnOf: (i) => header?.[i] ?? String(i + 1),
-    onRecord: (fields, line) => {
+    onRecord: (fields, line, quoted) => {
       if (header === undefined) {
+        checkHeaderSeparator(fields, quoted, separator, plan.label, line);
         header = fields.map((f) => f.trim());
         index = columnIndex(
           header,
-          [...plan.columns, ...(plan.key === null ? [] : [plan.key])],
+          [...plan.columns, ...(plan.categories ?? []), ...(plan.key === null ? [] : [plan.key])],
           plan.label,
           line,
         );
@@ -459,7 +516,8 @@ function csvParser(plan: ReadPlan, sink: RowSink): Parser {
             "RAGGED_ROW",
             "malformed",
             `this record has ${fields.length} fields, but the header has ${header.length}`,
-            'Check it for a missing or extra comma, or pass malformed: "drop" to leave such records out',
+            `Check it for a missing or extra ${separatorName(separator)}, or pass malformed: ` +
+              '"drop" to leave such records out',
           ),
         );
         return;

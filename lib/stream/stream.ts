@@ -1,11 +1,13 @@
 /**
- * `sweepStream`: the cross-validated λ sweep over a CSV or NDJSON file or stream that need not
- * fit in memory. Rows are read in chunks; each row's fold comes from the fold hash of a key
- * column or of its record number (lib/stream/hash.ts); per-fold summaries are merged chunk by
- * chunk (lib/stream/accumulate.ts), so memory is O(K·p²) plus one chunk, whatever the row count.
+ * `sweepStream`: the cross-validated sweep — λ for ridge, α for lasso / elastic net — over a CSV
+ * or NDJSON file or stream that need not fit in memory. Rows are read in chunks; each row's fold
+ * comes from the fold hash of a key column or of its record number (lib/stream/hash.ts);
+ * per-fold summaries are merged chunk by chunk (lib/stream/accumulate.ts), so memory is O(K·p²)
+ * plus one chunk, whatever the row count.
  *
- * Passes: one when every Legendre term has a given domain; otherwise a first pass finds the
- * per-fold ranges (domains), and a second builds the summaries — so the source must be
+ * Passes: one when every Legendre term has a given domain and no term reads categories;
+ * otherwise a first pass finds the per-fold ranges (domains) and the category levels, and a
+ * second builds the summaries — so the source must be
  * re-readable (a path, or a function returning a fresh stream). A fold whose change of Legendre
  * basis would amplify rounding is re-read once more (rare: only when a fold holds an extreme
  * value of a high-degree term's column).
@@ -23,12 +25,20 @@ import {
   checkScaleSpec,
   DEFAULT_HASH_FOLDS,
   finishSweep,
+  scaleColumns,
   type ScaleProgressListener,
   type ScaleSweepResult,
   type ScaleSweepSpec,
 } from "./finish.ts";
 import { foldHash } from "./hash.ts";
-import { addToRanges, emptyRanges, type FoldRanges, learnOnRanges } from "./ranges.ts";
+import { checkFieldSeparator } from "../table/options.ts";
+import {
+  addChunkToRanges,
+  addToRanges,
+  emptyRanges,
+  type FoldRanges,
+  learnOnRanges,
+} from "./ranges.ts";
 import {
   readChunks,
   type ReadPlan,
@@ -58,6 +68,11 @@ export interface StreamSweepSpec extends ScaleSweepSpec {
   readonly chunkRows?: number;
   /** Label for messages; default the path, or "stream". */
   readonly label?: string;
+  /**
+   * CSV only: the one character between fields (default `","`), as in `readCsv`
+   * (lib/table/README.md); never guessed.
+   */
+  readonly fieldSeparator?: string;
   /** Receives reports while each pass reads (`done`/`total` in bytes), per fold, and at the fit. */
   readonly progress?: ScaleProgressListener;
 }
@@ -85,7 +100,8 @@ export interface StreamSweepResult extends ScaleSweepResult {
 const DEFAULT_CHUNK_ROWS = 8192;
 
 /**
- * Sweeps λ over rows read from `source` with hash folds.
+ * Sweeps λ (ridge, the default) or α (`penalty: lasso()` / `elasticNet({ mix })`, with
+ * `alphas`) over rows read from `source` with hash folds; the result's `scale` says which.
  *
  * @example
  * ```ts
@@ -104,6 +120,7 @@ export async function sweepStream(
   spec: StreamSweepSpec,
 ): Promise<StreamSweepResult> {
   const inputs = checkScaleSpec(spec);
+  const { categories } = scaleColumns(spec.terms);
   const k = spec.folds?.k ?? DEFAULT_HASH_FOLDS.k;
   const seed = spec.folds?.seed ?? DEFAULT_HASH_FOLDS.seed;
   const key = spec.folds?.key ?? null;
@@ -112,20 +129,22 @@ export async function sweepStream(
   const plan: ReadPlan = {
     format: spec.format ?? formatOf(source),
     columns: [...new Set([spec.target, ...inputs])],
+    categories,
     key,
     hash: foldHash(seed, k),
     missing: policy(spec.missing, "missing"),
     malformed: policy(spec.malformed, "malformed"),
     chunkRows,
     label,
+    fieldSeparator: csvSeparator(spec.fieldSeparator, spec.format ?? formatOf(source)),
   };
   const rereadable = !(source instanceof ReadableStream);
-  const twoPass = spec.terms.some(learnsFromRows);
+  const twoPass = spec.terms.some(learnsFromRows) || categories.length > 0;
   if (twoPass && !rereadable) {
     throw new CurbfitError(
       "BAD_OPTION",
-      "a stream can be read once, but a Legendre term without a domain needs a first pass to " +
-        "find it",
+      "a stream can be read once, but a Legendre term without a domain or an indicators term " +
+        "needs a first pass to find the domain or the levels",
       "Give each legendre term { domain: [lo, hi] }, or pass a file path or a function that " +
         "returns a fresh stream",
       { option: "source" },
@@ -153,10 +172,10 @@ export async function sweepStream(
     return stats;
   };
 
-  let ranges = emptyRanges(inputs, k);
+  let ranges = emptyRanges(inputs, k, categories);
   let firstStats: ReadStats | undefined;
   if (twoPass) {
-    firstStats = await read("domains", (chunk) => collectRanges(ranges, chunk, inputs));
+    firstStats = await read("domains", (chunk) => addChunkToRanges(ranges, chunk));
   }
   const terms = twoPass
     ? learnOnRanges(spec.terms, ranges, -1, label)
@@ -164,7 +183,7 @@ export async function sweepStream(
   const accumulator = new FoldAccumulator(terms, spec.target, k, label);
   const collected = emptyRanges(inputs, k);
   const stats = await read("summaries", (chunk) => {
-    if (!twoPass) collectRanges(collected, chunk, inputs);
+    if (!twoPass) addChunkToRanges(collected, chunk);
     accumulator.add(chunk);
   });
   if (firstStats !== undefined && firstStats.used !== stats.used) {
@@ -217,24 +236,6 @@ function unitRanges(columns: readonly string[], k: number): FoldRanges {
   return r;
 }
 
-function collectRanges(
-  r: FoldRanges,
-  chunk: Parameters<Parameters<typeof readChunks>[2]>[0],
-  columns: readonly string[],
-): void {
-  const counts = r.counts as Float64Array;
-  for (let i = 0; i < chunk.size; i++) counts[chunk.bucket[i]]++;
-  for (const name of columns) {
-    const v = chunk.columns.get(name)!;
-    const lo = r.min.get(name)!, hi = r.max.get(name)!;
-    for (let i = 0; i < chunk.size; i++) {
-      const f = chunk.bucket[i];
-      if (v[i] < lo[f]) lo[f] = v[i];
-      if (v[i] > hi[f]) hi[f] = v[i];
-    }
-  }
-}
-
 function sourceLabel(source: StreamSource): string {
   if (typeof source === "string") return source;
   if (source instanceof URL) {
@@ -256,6 +257,17 @@ function policy(value: unknown, option: string): "error" | "drop" {
     `${option} is ${JSON.stringify(value)}, but it must be "error" or "drop"`,
     `Pass ${option}: "drop" to leave such records out (they are counted), or leave it out`,
     { option },
+  );
+}
+
+/** The checked field separator; giving one for NDJSON is an error, not ignored. */
+function csvSeparator(value: unknown, format: StreamFormat): string {
+  if (format === "csv" || value === undefined) return checkFieldSeparator(value);
+  throw new CurbfitError(
+    "BAD_OPTION",
+    `fieldSeparator is given, but the format is ${JSON.stringify(format)}, which has no separator`,
+    'Leave fieldSeparator out for NDJSON, or pass format: "csv"',
+    { option: "fieldSeparator" },
   );
 }
 

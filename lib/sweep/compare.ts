@@ -15,7 +15,13 @@ import type { Table } from "../table/types.ts";
 import { toTable } from "../table/mod.ts";
 import type { FoldPlan } from "../folds/mod.ts";
 import { prepare, type TableInput } from "../fit/fit.ts";
-import { type ProgressListener, sweepPrepared, type SweepResult, type SweepSpec } from "./sweep.ts";
+import {
+  checkSweepOptions,
+  type ProgressListener,
+  sweepPrepared,
+  type SweepResult,
+  type SweepSpec,
+} from "./sweep.ts";
 import { type FoldRequest, planFolds } from "./folds.ts";
 import type { SelectionRule } from "./select.ts";
 import { sweepSource } from "../record/provenance.ts";
@@ -135,6 +141,9 @@ function* compareSteps(
   options: CompareOptions,
 ): Steps<ComparisonResult> {
   checkCandidates(candidates);
+  candidates.forEach((c, i) =>
+    checkSweepOptions({ ...c, target: options.target }, `candidates[${i}].`)
+  );
   const table = toTable(data);
   const plan = planFolds(table, options.folds);
   const source = sweepSource(table, options.target, candidates.map((c) => c.terms), options.folds);

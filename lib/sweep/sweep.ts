@@ -121,7 +121,12 @@ export interface CurvePoint {
   readonly trainMse: number;
   /** Mean training MSE over the folds' training sets. */
   readonly foldTrainMse: number;
-  /** Ridge: effective df of the all-rows fit. Sparse: its nonzero count. */
+  /**
+   * Effective degrees of freedom of the all-rows fit, intercept not counted. Ridge:
+   * Σ e_j/(e_j + λ). Sparse: Σ_j μ_j/(μ_j + α(1 − ρ)) over the eigenvalues μ_j of the active
+   * block of the (standardized) Gram matrix (lib/sparse/df.ts) — the nonzero count for the lasso,
+   * below it for the elastic net.
+   */
   readonly df: number;
   /** Number of nonzero coefficients of the all-rows fit (every one, for ridge). */
   readonly nonzero: number;
@@ -224,7 +229,7 @@ export function sweepAsync(data: Table | TableInput, spec: SweepSpec): Promise<S
 function* sweepSteps(data: Table | TableInput, spec: SweepSpec): Steps<SweepResult> {
   const table = toTable(data);
   const plan = planFolds(table, spec.folds);
-  checkSweepStrength(spec);
+  checkSweepOptions(spec);
   const { y, terms, design } = prepare(table, spec);
   const source = sweepSource(table, spec.target, [spec.terms], spec.folds);
   return yield* sweepPrepared(table, spec, plan, terms, design, y, source);
@@ -381,7 +386,19 @@ function wantClosedForm(option: boolean | "auto" | undefined, n: number): boolea
   return option;
 }
 
-function edgeNotes(
+/**
+ * A note when the smallest CV error sits on an end of the grid (shared with the stream and SQL
+ * sweeps): which option widens the grid, or, at the top of an automatic α path, that every
+ * coefficient is zero there.
+ *
+ * @example
+ * ```ts
+ * import { edgeNotes } from "./sweep.ts";
+ * const minimum = { rule: "min" as const, index: 0, strength: 0.001 };
+ * console.log(edgeNotes(minimum, 10, "lambda", undefined)); // [ "… lower lambdas.min …" ]
+ * ```
+ */
+export function edgeNotes(
   minimum: Choice,
   count: number,
   scale: StrengthScale,
@@ -415,17 +432,46 @@ function edgeNotes(
   return [];
 }
 
-/** Rejects strength options of the other convention, and closed-form LOO for sparse penalties. */
-function checkSweepStrength(spec: SweepSpec): void {
+/**
+ * Rejects what a sweep cannot honour, naming the option (with `prefix`, e.g. `candidates[1].`):
+ * a fixed strength (`lambda`, `budget`, `alpha` — a sweep chooses it), strength options of the
+ * other convention, and closed-form leave-one-out with a sparse penalty.
+ *
+ * @example
+ * ```ts
+ * import { checkSweepOptions } from "./sweep.ts";
+ * import { column } from "../design/mod.ts";
+ * try {
+ *   checkSweepOptions({ target: "y", terms: [column("x")], lambda: 2 } as never);
+ * } catch (e) {
+ *   console.log((e as Error).message); // lambda fixes the strength, but a sweep chooses it …
+ * }
+ * ```
+ */
+export function checkSweepOptions(spec: SweepSpec, prefix = ""): void {
   const penalty = spec.penalty ?? ridge();
-  checkStrengthOptions(penalty, spec as unknown as Record<string, unknown>);
+  const given = spec as unknown as Record<string, unknown>;
+  checkStrengthOptions(penalty, given, prefix);
+  const grid = isSparse(penalty) ? "alphas" : "lambdas";
+  for (const option of ["lambda", "budget", "alpha"]) {
+    if (given[option] === undefined) continue;
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `${option} fixes the strength, but a sweep chooses it by cross-validation`,
+      option === "budget"
+        ? "A sweep scores λ values (lambdas); to fit for a budget C use fit() with budget"
+        : `To score given values pass ${grid}: [${String(given[option])}, …]; to fit at one ` +
+          "strength use fit()",
+      { option: prefix + option },
+    );
+  }
   if (isSparse(penalty) && spec.closedForm === true) {
     throw new CurbfitError(
       "BAD_OPTION",
       `closedForm was asked for with a ${penalty.kind} penalty, but closed-form leave-one-out ` +
         "is a ridge identity",
       "Leave closedForm out; the sparse curve reports K-fold errors only",
-      { option: "closedForm" },
+      { option: prefix + "closedForm" },
     );
   }
 }
