@@ -23,6 +23,7 @@ export {
   type Column,
   type ColumnArrays,
   type ColumnKind,
+  type CsvOptions,
   isTable,
   type LoadOptions,
   type MissingReport,

@@ -49,6 +49,7 @@ import {
 } from "./fixtures/cli/helpers.ts";
 
 const F = "test/fixtures/cli";
+const CSV = "test/fixtures/csv";
 const ORCHARD = "examples/data/orchard.csv";
 
 /** Asserts the failure shape every bad input must have: exit 2, one stderr line, no stack. */
@@ -285,6 +286,36 @@ const BAD: readonly { name: string; args: string[]; mentions: string[] }[] = [
     name: "elastic net with an L1 share above 1",
     args: [...FIT_SHADE, "--penalty", "elastic-net:1.5", "--alpha", "0.1"],
     mentions: ["--penalty", "1.5"],
+  },
+  {
+    name: "a field separator of two characters",
+    args: [...SWEEP, "--field-separator", ";;"],
+    mentions: ["--field-separator", '";;"', "exactly one character"],
+  },
+  {
+    name: "a double quote as field separator",
+    args: [...SWEEP, "--field-separator", '"'],
+    mentions: ["--field-separator", "double quote"],
+  },
+  {
+    name: "a semicolon file read with the default comma",
+    args: ["sweep", "--data", `${CSV}/semicolon_cr.csv`, "--target", "y", "--term", "column:x"],
+    mentions: ["semicolon_cr.csv", "line 1", "semicolons", "--field-separator ';'"],
+  },
+  {
+    name: "a bad value in a semicolon file with bare CR line ends",
+    args: [
+      "sweep",
+      "--data",
+      `${CSV}/semicolon_cr.csv`,
+      "--field-separator",
+      ";",
+      "--target",
+      "y",
+      "--term",
+      "column:x",
+    ],
+    mentions: ["semicolon_cr.csv", "line 4", '"oops"'],
   },
 ];
 
@@ -710,4 +741,41 @@ Deno.test("cli: compare mixes ridge and elastic-net candidates; the reproduce co
   assert.equal(await Deno.readTextFile(join(again, "record.json")), json);
   await Deno.remove(out, { recursive: true });
   await Deno.remove(again, { recursive: true });
+});
+
+Deno.test("cli: --field-separator reads a tab-separated file with bare CR line ends to the comma file's record", async () => {
+  const dir = await Deno.makeTempDir();
+  const orchard = await Deno.readTextFile(join(ROOT, ORCHARD));
+  assert.ok(!orchard.includes('"') && !orchard.includes("\t"), "no quotes or tabs to convert");
+  const converted = join(dir, "orchard.tsv");
+  await Deno.writeTextFile(converted, orchard.replaceAll(",", "\t").replace(/\r?\n/g, "\r"));
+  const flags = [
+    "--target",
+    "brix",
+    "--term",
+    "legendre:days_since_blossom:5",
+    "--term",
+    "column:shade_share",
+    "--term",
+    "indicators:watering",
+    "--folds",
+    "6",
+    "--seed",
+    "4",
+    "--quiet",
+  ];
+  const records: Record<string, unknown>[] = [];
+  for (const data of [[ORCHARD], [converted, "--field-separator", "tab"]]) {
+    const out = join(dir, String(records.length));
+    const ran = await runTask("curbfit", ["sweep", "--data", ...data, ...flags, "--out", out]);
+    assert.equal(ran.code, 0, ran.stderr);
+    const record = JSON.parse(await Deno.readTextFile(join(out, "record.json")));
+    assert.equal(record.data.source, data[0]);
+    delete record.data.source;
+    records.push(record);
+  }
+  assert.deepEqual(records[1], records[0], "same rows, same record (apart from the file name)");
+  const help = await runTask("curbfit", ["help", "fit"]);
+  assert.match(help.stdout, /--field-separator CHAR .*tab/);
+  await Deno.remove(dir, { recursive: true });
 });

@@ -18,6 +18,8 @@ import {
   toTable,
 } from "../lib/table/mod.ts";
 import { CsvTokenizer } from "../lib/table/csv_tokenizer.ts";
+import { sweepStream } from "../lib/stream/stream.ts";
+import { legendre } from "../lib/design/mod.ts";
 import { parseDecimal } from "../lib/table/values.ts";
 
 const NIST = new URL("../../shared/data/nist-strd/", import.meta.url);
@@ -464,4 +466,281 @@ Deno.test("bad options: unknown names and wrong values give BAD_OPTION or UNKNOW
   assertFails(() => tableFromRows([{ a: 1 }, { a: true }]), "BAD_NUMBER", "line 2", "true");
   assertFails(() => tableFromRows([]), "EMPTY_INPUT", "rows");
   assertFails(() => tableFromColumns({ a: [] }), "NO_ROWS", "columns");
+});
+
+// ---------------------------------------------------------------------------------------------
+// Field separators and line ends
+
+Deno.test("fieldSeparator: NIST Longley with semicolons, tabs, bars or spaces loads to the comma file's numbers", async () => {
+  // Longley: n = 16 (NIST StRD certified.json), first observation y = 60323 (Longley.csv).
+  const text = await Deno.readTextFile(new URL("Longley.csv", NIST));
+  const comma = parseCsv(text);
+  assert.equal(comma.nRows, 16);
+  assert.equal(numbers(comma, "y")[0], 60323);
+  const dir = await Deno.makeTempDir();
+  try {
+    for (const separator of [";", "\t", "|", " "]) {
+      const converted = text.replaceAll(",", separator);
+      const path = `${dir}/longley.txt`;
+      await Deno.writeTextFile(path, converted);
+      // Seven-character chunks cut records, fields and numbers anywhere.
+      const pieces = converted.match(/[^]{1,7}/g)!;
+      const tables = [
+        parseCsv(converted, { fieldSeparator: separator }),
+        await readCsv(path, { fieldSeparator: separator }),
+        await readCsvStream(streamOf(pieces), { fieldSeparator: separator }),
+      ];
+      for (const table of tables) {
+        const label = `${JSON.stringify(separator)} from ${table.source}`;
+        assert.deepEqual(table.names, comma.names, label);
+        for (const name of comma.names) {
+          assert.deepEqual(numbers(table, name), numbers(comma, name), `${label}, ${name}`);
+        }
+        assert.deepEqual([...table.lineOfRow], [...comma.lineOfRow], label);
+      }
+    }
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+});
+
+Deno.test("fieldSeparator: quotes work as with commas, and a comma is plain text", () => {
+  const text = 'id;label;note\r\n1;a,b;"x; y"\r\n2;"c ""d""";"two\r\nlines"\r\n3;e;\r\n';
+  const table = parseCsv(text, { fieldSeparator: ";", missing: "drop" });
+  assert.deepEqual(numbers(table, "id"), [1, 2]);
+  assert.deepEqual(category(table, "label").levels, ["a,b", 'c "d"']);
+  assert.deepEqual(category(table, "note").levels, ["two\r\nlines", "x; y"]);
+  assert.deepEqual(table.missing.droppedLines, [5]);
+  assertFails(
+    () => parseCsv('a;b\n1;"x",\n', { fieldSeparator: ";" }),
+    "OPEN_QUOTE",
+    "line 2",
+    'column "b"',
+    '","',
+  );
+});
+
+Deno.test("line ends: bare CR, CRLF and LF give the same rows and line numbers, in errors too", () => {
+  // Records start on lines 2, 5, 6, 7: a quoted line break moves them down, line 4 is blank.
+  const lf = 'x,note\n1,"two\nlines"\n\n2,plain\n3,"say ""hi"""\n4,last';
+  for (const end of ["\n", "\r\n", "\r"]) {
+    const text = lf.replaceAll("\n", end);
+    const label = JSON.stringify(end);
+    const table = parseCsv(text);
+    assert.deepEqual([...table.lineOfRow], [2, 5, 6, 7], label);
+    assert.deepEqual(numbers(table, "x"), [1, 2, 3, 4], label);
+    assert.deepEqual(
+      category(table, "note").levels,
+      ["last", "plain", 'say "hi"', `two${end}lines`],
+      label,
+    );
+    assertFails(() => parseCsv(`${text}${end}bad,x`), "BAD_NUMBER", "line 8", 'column "x"');
+    assertFails(() => parseCsv(`${text}${end}5`), "RAGGED_ROW", "line 8", "1 field");
+    assertFails(() => parseCsv(`${text}${end}5,"open${end}6,y`), "OPEN_QUOTE", "line 8");
+    const dropped = parseCsv(`${text}${end}NA,z${end}${end}6,w`, { missing: "drop" });
+    assert.deepEqual(dropped.missing.droppedLines, [8], label);
+    assert.deepEqual([...dropped.lineOfRow], [2, 5, 6, 7, 10], label);
+  }
+});
+
+Deno.test("line ends: mixed in one file, each CR, LF or CRLF ends one line", () => {
+  // Lines: 1 "x,y" CR, 2 "1,2" LF, 3 "3,4" CRLF, 4 "5,6" CR, 5 empty CRLF, 6 "7,8" LF, 7 empty CR,
+  // 8 "9,oops" CR.
+  const mixed = "x,y\r1,2\n3,4\r\n5,6\r\r\n7,8\n\r9,oops\r";
+  assertFails(() => parseCsv(mixed), "BAD_NUMBER", "line 8", 'column "y"', '"oops"');
+  const table = parseCsv(mixed.replace("9,oops\r", ""));
+  assert.deepEqual([...table.lineOfRow], [2, 3, 4, 6]);
+  assert.deepEqual(numbers(table, "y"), [2, 4, 6, 8]);
+  // A bare CR after a closing quote ends the record (before, only CRLF or LF could).
+  const afterQuote = parseCsv('a,b\r1,"q"\r2,"r"\r\n3,"s"\n');
+  assert.deepEqual([...afterQuote.lineOfRow], [2, 3, 4]);
+  assert.deepEqual(category(afterQuote, "b").levels, ["q", "r", "s"]);
+  // Quoted fields keep every kind of line end as written, and count each as one line.
+  const quoted = parseCsv('a,b\n1,"p\rq\r\nr\ns"\r5,t\n');
+  assert.deepEqual(category(quoted, "b").levels, ["p\rq\r\nr\ns", "t"]);
+  assert.deepEqual([...quoted.lineOfRow], [2, 6]);
+});
+
+Deno.test("tokenizer: bare CR and CRLF cut anywhere between chunks, with a chosen separator", () => {
+  const text = 'a;b;c\r1;"x\ry";3\r\r2;"p\r\nq";\r\n"";q"r;"m\n\rn"\r4;5;6\r';
+  const run = (chunks: string[]) => {
+    const out: [string[], number, boolean][] = [];
+    const tokenizer = new CsvTokenizer({
+      source: "t",
+      separator: ";",
+      onRecord: (f, l, q) => out.push([f, l, q]),
+    });
+    for (const chunk of chunks) tokenizer.push(chunk);
+    tokenizer.end();
+    return { records: out, next: tokenizer.line };
+  };
+  const whole = run([text]);
+  assert.deepEqual(whole, {
+    records: [
+      [["a", "b", "c"], 1, false],
+      [["1", "x\ry", "3"], 2, true],
+      [["2", "p\r\nq", ""], 5, true],
+      [["", 'q"r', "m\n\rn"], 7, true],
+      [["4", "5", "6"], 10, false],
+    ],
+    next: 11,
+  });
+  for (let i = 0; i <= text.length; i++) {
+    for (let j = i; j <= text.length; j++) {
+      assert.deepEqual(
+        run([text.slice(0, i), text.slice(i, j), text.slice(j)]),
+        whole,
+        `${i},${j}`,
+      );
+    }
+  }
+});
+
+Deno.test("bad options: a fieldSeparator that cannot separate fields is BAD_OPTION naming it", async () => {
+  const text = "a,b\n1,2\n";
+  for (const bad of ['"', "\r", "\n", "", ";;", "\\t", ".", "-", "+", "e", "7", "\u{1F600}"]) {
+    assertFails(
+      () => parseCsv(text, { fieldSeparator: bad }),
+      "BAD_OPTION",
+      "option fieldSeparator",
+      JSON.stringify(bad),
+    );
+  }
+  assertFails(
+    () => parseCsv(text, { fieldSeparator: 44 as never }),
+    "BAD_OPTION",
+    "option fieldSeparator",
+    "44",
+  );
+  // Options are checked before the file is opened or the stream read.
+  await assertRejects(
+    () => readCsv("no/such/file.csv", { fieldSeparator: '"' }),
+    "BAD_OPTION",
+    "option fieldSeparator",
+  );
+  await assertRejects(
+    () => readCsvStream(streamOf([text]), { fieldSeparator: "\n" }),
+    "BAD_OPTION",
+    "option fieldSeparator",
+  );
+  // Rows and columns have no separator: the option is refused, not ignored.
+  assertFails(
+    () => tableFromRows([{ a: 1 }], { fieldSeparator: ";" } as never),
+    "BAD_OPTION",
+    "option fieldSeparator",
+    "CSV input only",
+  );
+  assertFails(
+    () => toTable({ a: [1] }, { fieldSeparator: "," } as never),
+    "BAD_OPTION",
+    "option fieldSeparator",
+  );
+});
+
+Deno.test("wrong separator: a header that does not split names the likely one; nothing is guessed", async () => {
+  assertFails(
+    () => parseCsv("x;y\n1;2\n"),
+    "BAD_OPTION",
+    "CSV text, line 1, option fieldSeparator",
+    '"x;y"',
+    "separated by semicolons",
+    'fieldSeparator: ";"',
+  );
+  assertFails(
+    () => parseCsv("x\ty\n1\t2\n"),
+    "BAD_OPTION",
+    "line 1",
+    "tabs",
+    "field-separator tab",
+  );
+  assertFails(
+    () => parseCsv("x,y\n1,2\n", { fieldSeparator: ";" }),
+    "BAD_OPTION",
+    "line 1",
+    "probably separated by commas",
+    "read as separated by semicolons",
+  );
+  // The header's own line is named after blank lines; the most frequent candidate is named.
+  assertFails(
+    () => parseCsv("\r\n\r\na|b|c;d\r\n1|2|3;4\r\n"),
+    "BAD_OPTION",
+    "line 3",
+    "2 vertical",
+  );
+  await assertRejects(
+    () => readCsvStream(streamOf(["x;", "y\n1;2\n"]), { source: "feed" }),
+    "BAD_OPTION",
+    "feed, line 1",
+  );
+  // Quoted names followed by another separator: the quote error suggests it.
+  assertFails(
+    () => parseCsv('"x";"y"\n"1";2\n'),
+    "OPEN_QUOTE",
+    "line 1",
+    'set the field separator to ";"',
+  );
+  assert.deepEqual(numbers(parseCsv('"x";"y"\n"1";2\n', { fieldSeparator: ";" }), "x"), [1]);
+  // A one-column header in double quotes is taken as written; one without another separator too.
+  assert.deepEqual(parseCsv('"price;usd"\n3\n4\n').names, ["price;usd"]);
+  assert.deepEqual(parseCsv("x\n1\n").names, ["x"]);
+  // A record that does not split, under a header that does, says so in its hint.
+  assertFails(
+    () => parseCsv("x,y\n1,2\n3;4\n"),
+    "RAGGED_ROW",
+    "line 3",
+    "has 1 field,",
+    "If the semicolons in it are meant to separate its fields",
+  );
+  assertFails(() => parseCsv("x;y\n1;2\n3\n", { fieldSeparator: ";" }), "RAGGED_ROW", "semicolon");
+  // With the separator given, a decimal comma stays text: no value is changed silently.
+  assertFails(
+    () => parseCsv("x;y\n2;3\n1,5;2\n", { fieldSeparator: ";" }),
+    "BAD_NUMBER",
+    "line 3",
+    '"1,5"',
+  );
+});
+
+Deno.test("sweepStream takes fieldSeparator: NIST Pontius with semicolons and bare CR sweeps as with commas", async () => {
+  // The comma file is the reference; Pontius (NIST StRD) has n = 40 rows of y, x.
+  const comma = await Deno.readTextFile(new URL("Pontius.csv", NIST));
+  const semicolons = comma.replaceAll(",", ";").replace(/\r?\n/g, "\r");
+  const spec = {
+    target: "y",
+    terms: [legendre("x", 2)],
+    folds: { k: 4, seed: 3 },
+    lambdas: [0, 1e-3, 1],
+  };
+  const a = await sweepStream(() => streamOf([comma]), spec);
+  const b = await sweepStream(() => streamOf(semicolons.match(/[^]{1,9}/g)!), {
+    ...spec,
+    fieldSeparator: ";",
+  });
+  assert.equal(a.rows.used, 40);
+  assert.equal(b.rows.used, 40);
+  assert.deepEqual(b.curve, a.curve);
+  assert.deepEqual(b.minimum, a.minimum);
+  // A bad separator, one given for NDJSON, and a header read with the wrong one: BAD_OPTION.
+  await assertRejects(
+    () => sweepStream(() => streamOf([comma]), { ...spec, fieldSeparator: "\n" }),
+    "BAD_OPTION",
+    "option fieldSeparator",
+  );
+  await assertRejects(
+    () =>
+      sweepStream(() => streamOf(['{"x":1,"y":2}\n']), {
+        ...spec,
+        format: "ndjson",
+        fieldSeparator: ";",
+      }),
+    "BAD_OPTION",
+    "option fieldSeparator",
+    "ndjson",
+  );
+  await assertRejects(
+    () => sweepStream(() => streamOf([semicolons]), { ...spec, label: "pontius" }),
+    "BAD_OPTION",
+    "pontius, line 1, option fieldSeparator",
+    "semicolons",
+  );
 });

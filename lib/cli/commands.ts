@@ -48,7 +48,14 @@ export interface CommandSpec {
 const data: OptionSpec = {
   name: "data",
   value: "FILE",
-  help: "CSV file to read (comma-separated, header line first)",
+  help: "CSV file to read (header line first; fields separated by commas unless " +
+    "--field-separator says otherwise)",
+};
+const fieldSeparator: OptionSpec = {
+  name: "field-separator",
+  value: "CHAR",
+  help: "the character between fields: one character such as ';' or '|', or the word tab " +
+    "(default: comma; line ends CRLF, LF or CR are found on their own)",
 };
 const target: OptionSpec = { name: "target", value: "COLUMN", help: "the column to predict" };
 const missing: OptionSpec = {
@@ -184,6 +191,7 @@ export const COMMANDS: readonly CommandSpec[] = [
       "cross-validation; write the report and record",
     options: [
       data,
+      fieldSeparator,
       target,
       missing,
       category,
@@ -203,6 +211,7 @@ export const COMMANDS: readonly CommandSpec[] = [
     summary: "sweep several candidate models on the same folds and compare them",
     options: [
       data,
+      fieldSeparator,
       target,
       missing,
       category,
@@ -239,6 +248,7 @@ export const COMMANDS: readonly CommandSpec[] = [
       "write the report",
     options: [
       data,
+      fieldSeparator,
       target,
       missing,
       category,
@@ -271,7 +281,8 @@ export const COMMANDS: readonly CommandSpec[] = [
     options: [
       {
         ...data,
-        help: "the CSV file the record was made from (default: the file the record names)",
+        help: "the CSV file the record was made from, comma-separated (default: the file the " +
+          "record names)",
       },
     ],
   },

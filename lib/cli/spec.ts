@@ -6,7 +6,8 @@
  *
  * @module
  */
-import type { LoadOptions } from "../table/mod.ts";
+import type { CsvOptions } from "../table/mod.ts";
+import { separatorProblem } from "../table/separator.ts";
 import type { Term } from "../design/types.ts";
 import { isSparse, type Penalty } from "../fit/penalty.ts";
 import type { AlphaGrid } from "../sparse/mod.ts";
@@ -40,9 +41,11 @@ import {
  * import { dataRequest } from "./spec.ts";
  * const r = dataRequest(parseArgs(commandNamed("sweep")!, ["--data", "a.csv", "--category", "zip"]));
  * console.log(r.path, r.load.types); // a.csv { zip: "category" }
+ * const t = dataRequest(parseArgs(commandNamed("fit")!, ["--data", "a.tsv", "--field-separator", "tab"]));
+ * console.log(t.load.fieldSeparator === "\t"); // true
  * ```
  */
-export function dataRequest(parsed: ParsedArgs): { path: string; load: LoadOptions } {
+export function dataRequest(parsed: ParsedArgs): { path: string; load: CsvOptions } {
   const path = optionValue(parsed, "data");
   if (path === undefined || path === "") {
     throw usageError(
@@ -54,7 +57,30 @@ export function dataRequest(parsed: ParsedArgs): { path: string; load: LoadOptio
   const types: Record<string, "category"> = {};
   for (const name of optionValues(parsed, "category")) types[name] = "category";
   const missing = optionValue(parsed, "missing") as "error" | "drop" | undefined;
-  return { path, load: { source: path, types, ...(missing ? { missing } : {}) } };
+  const separator = fieldSeparatorOf(parsed);
+  return {
+    path,
+    load: {
+      source: path,
+      types,
+      ...(missing ? { missing } : {}),
+      ...(separator !== undefined ? { fieldSeparator: separator } : {}),
+    },
+  };
+}
+
+/** The `--field-separator` character: one character as typed, or the word `tab`. */
+function fieldSeparatorOf(parsed: ParsedArgs): string | undefined {
+  const text = optionValue(parsed, "field-separator");
+  if (text === undefined) return undefined;
+  const separator = text === "tab" ? "\t" : text;
+  const problem = separatorProblem(separator);
+  if (problem === undefined) return separator;
+  throw usageError(
+    "--field-separator",
+    `--field-separator is ${JSON.stringify(text)}, but ${problem}`,
+    "Write one character in quotes, e.g. --field-separator ';', or --field-separator tab",
+  );
 }
 
 /** The target column (required). */

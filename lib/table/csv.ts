@@ -7,26 +7,28 @@
 import { CurbfitError } from "../errors/error.ts";
 import { CsvTokenizer } from "./csv_tokenizer.ts";
 import { TableBuilder } from "./builder.ts";
-import { type CheckedOptions, checkOptions, type LoadOptions } from "./options.ts";
+import { checkCsvOptions, type CheckedCsvOptions, type CsvOptions } from "./options.ts";
 import { count, describeValue } from "./describe.ts";
+import { checkHeaderSeparator, likelySeparator, separatorName } from "./separator.ts";
 import type { Table } from "./types.ts";
 
 const BYTE_ORDER_MARK = 0xfeff;
 
 /** Turns CSV text, pushed in pieces, into a table: header first, then one row per record. */
 class CsvLoader {
-  readonly #options: CheckedOptions;
+  readonly #options: CheckedCsvOptions;
   readonly #tokenizer: CsvTokenizer;
   #header: readonly string[] | undefined;
   #builder: TableBuilder | undefined;
   #started = false;
 
-  constructor(options: CheckedOptions) {
+  constructor(options: CheckedCsvOptions) {
     this.#options = options;
     this.#tokenizer = new CsvTokenizer({
       source: options.source,
-      onRecord: (fields, line) => this.#record(fields, line),
+      onRecord: (fields, line, quoted) => this.#record(fields, line, quoted),
       columnOf: (index) => this.#header?.[index] ?? String(index + 1),
+      separator: options.separator,
     });
   }
 
@@ -59,8 +61,10 @@ class CsvLoader {
     return this.#builder.finish();
   }
 
-  #record(fields: string[], line: number): void {
+  #record(fields: string[], line: number, quoted: boolean): void {
+    const { source, separator } = this.#options;
     if (this.#builder === undefined) {
+      checkHeaderSeparator(fields, quoted, separator, source, line);
       this.#header = fields.map((name) => name.trim());
       this.#builder = new TableBuilder(this.#header, this.#options, line);
       return;
@@ -70,9 +74,8 @@ class CsvLoader {
       throw new CurbfitError(
         "RAGGED_ROW",
         `this record has ${count(fields.length, "field")}, but the header has ${expected}`,
-        "Check it for a missing or extra comma; a field holding a comma or a line break must be " +
-          "in double quotes",
-        { source: this.#options.source, line },
+        raggedHint(fields, expected, separator),
+        { source, line },
       );
     }
     this.#builder.addRow(fields, line);
@@ -80,12 +83,31 @@ class CsvLoader {
 }
 
 /**
- * Parses CSV text (RFC 4180: comma separators, double-quoted fields that may hold commas, line
- * breaks and doubled `""` quotes; `\n` or `\r\n` line ends) into a {@link Table}. The first line
- * holds the column names (spaces around them are trimmed). A column is numeric when its first
- * non-missing value reads as a decimal number (e.g. `.11019`, `760.`, `-1.5e-3`), otherwise a
- * category; `options.types` overrides that. Missing values are empty, `NA`, `NaN` or `null`.
- * Empty lines are skipped. Errors are {@link CurbfitError}s naming the line and column.
+ * What to do about a record with the wrong number of fields; when it has too few and holds
+ * another common separator, says that its fields seem separated by that one instead.
+ */
+function raggedHint(fields: readonly string[], expected: number, separator: string): string {
+  const other = fields.length < expected ? likelySeparator(fields.join(""), separator) : undefined;
+  const name = separatorName(separator);
+  if (other !== undefined) {
+    return `If the ${separatorName(other, true)} in it are meant to separate its fields, use one ` +
+      `separator throughout the file (the header's are ${separatorName(separator, true)}); ` +
+      `otherwise check it for a missing ${name}`;
+  }
+  return `Check it for a missing or extra ${name}; a field holding a ${name} or a line break ` +
+    "must be in double quotes";
+}
+
+/**
+ * Parses CSV text (RFC 4180: comma separators unless `options.fieldSeparator` names another
+ * character; double-quoted fields that may hold separators, line breaks and doubled `""` quotes;
+ * `\r\n`, `\n` or bare `\r` line ends) into a {@link Table}. The first line holds the column
+ * names (spaces around them are trimmed). A column is numeric when its first non-missing value
+ * reads as a decimal number (e.g. `.11019`, `760.`, `-1.5e-3`), otherwise a category;
+ * `options.types` overrides that. Missing values are empty, `NA`, `NaN` or `null`. Empty lines
+ * are skipped. Errors are {@link CurbfitError}s naming the line and column; a header line that
+ * does not split but holds another common separator (`;` in a comma read, say) stops with
+ * `BAD_OPTION` naming `fieldSeparator`.
  *
  * @example
  * ```ts
@@ -94,10 +116,11 @@ class CsvLoader {
  * table.nRows; // 2
  * table.columns.get("load"); // { kind: "number", values: Float64Array [1.5, 0.25], ... }
  * table.lineOfRow; // Int32Array [2, 3]
+ * parseCsv("load;site\r1.5;north\r", { fieldSeparator: ";" }).nRows; // 1 (bare CR line ends)
  * ```
  */
-export function parseCsv(text: string, options?: LoadOptions): Table {
-  const checked = checkOptions(options, "CSV text");
+export function parseCsv(text: string, options?: CsvOptions): Table {
+  const checked = checkCsvOptions(options, "CSV text");
   if (typeof text !== "string") {
     throw new CurbfitError(
       "BAD_OPTION",
@@ -106,7 +129,7 @@ export function parseCsv(text: string, options?: LoadOptions): Table {
       { option: "text" },
     );
   }
-  if (!text.includes("\n") && /^[^,"]*\.(csv|txt)$/i.test(text.trim())) {
+  if (!/[\r\n]/.test(text) && /^[^,"]*\.(csv|txt)$/i.test(text.trim())) {
     throw new CurbfitError(
       "NO_ROWS",
       `the CSV text is the single line ${JSON.stringify(text)}, which looks like a file name`,
@@ -131,13 +154,15 @@ export function parseCsv(text: string, options?: LoadOptions): Table {
  * const body = ReadableStream.from(["x,y\n1,2\n", "3,4\n"]);
  * const table = await readCsvStream(body, { source: "sensor feed" });
  * table.nRows; // 2
+ * const piped = ReadableStream.from(["x|y\r1|2\r"]);
+ * (await readCsvStream(piped, { fieldSeparator: "|" })).nRows; // 1
  * ```
  */
 export async function readCsvStream(
   stream: ReadableStream<Uint8Array | string>,
-  options?: LoadOptions,
+  options?: CsvOptions,
 ): Promise<Table> {
-  const checked = checkOptions(options, "stream");
+  const checked = checkCsvOptions(options, "stream");
   if (!(stream instanceof ReadableStream)) {
     throw new CurbfitError(
       "BAD_OPTION",
@@ -162,10 +187,12 @@ export async function readCsvStream(
  * const table = await readCsv(path, { missing: "drop" });
  * table.nRows; // 2
  * table.missing.droppedLines; // [3]
+ * await Deno.writeTextFile(path, "dose\tresponse\n1\t0.5\n");
+ * (await readCsv(path, { fieldSeparator: "\t" })).names; // ["dose", "response"]
  * ```
  */
-export async function readCsv(path: string | URL, options?: LoadOptions): Promise<Table> {
-  const checked = checkOptions(options, pathLabel(path));
+export async function readCsv(path: string | URL, options?: CsvOptions): Promise<Table> {
+  const checked = checkCsvOptions(options, pathLabel(path));
   let file: Deno.FsFile;
   try {
     file = await Deno.open(path, { read: true });
@@ -212,7 +239,7 @@ function streamChunks(stream: ReadableStream<Uint8Array | string>): Chunks {
 }
 
 /** Feeds chunks to a {@link CsvLoader}; stops the chunk source early if loading fails. */
-async function load(chunks: Chunks, options: CheckedOptions): Promise<Table> {
+async function load(chunks: Chunks, options: CheckedCsvOptions): Promise<Table> {
   const loader = new CsvLoader(options);
   // ignoreBOM keeps a byte order mark in the text, so the loader skips exactly one for every kind
   // of input; fatal rejects bytes that are not UTF-8 instead of replacing them.

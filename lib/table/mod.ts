@@ -21,5 +21,5 @@ export {
   tableFromRows,
   toTable,
 } from "./memory.ts";
-export type { ColumnKind, LoadOptions } from "./options.ts";
+export type { ColumnKind, CsvOptions, LoadOptions } from "./options.ts";
 export type { CategoryColumn, Column, MissingReport, NumericColumn, Table } from "./types.ts";

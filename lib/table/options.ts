@@ -5,6 +5,7 @@
  */
 import { CurbfitError } from "../errors/error.ts";
 import { describeValue } from "./describe.ts";
+import { DEFAULT_SEPARATOR, separatorProblem } from "./separator.ts";
 
 /** How a column is stored: `"number"` (Float64Array) or `"category"` (sorted levels + codes). */
 export type ColumnKind = "number" | "category";
@@ -34,6 +35,27 @@ export interface LoadOptions {
   readonly source?: string;
 }
 
+/**
+ * Options of the CSV loaders (`parseCsv`, `readCsv`, `readCsvStream`): those of every loader,
+ * and the field separator.
+ *
+ * @example
+ * ```ts
+ * import type { CsvOptions } from "./options.ts";
+ * const semicolons: CsvOptions = { fieldSeparator: ";", missing: "drop" };
+ * const tabs: CsvOptions = { fieldSeparator: "\t" };
+ * ```
+ */
+export interface CsvOptions extends LoadOptions {
+  /**
+   * The one character between fields; `","` when absent. Common others are `";"` (files from
+   * spreadsheets set up for a decimal comma), `"\t"` and `"|"`. Not `"`, CR or LF, nor an ASCII
+   * letter or digit, `.`, `+` or `-`, which occur inside values. Line ends are found on their
+   * own (`\r\n`, `\n` or a bare `\r`).
+   */
+  readonly fieldSeparator?: string;
+}
+
 /** Options after validation, with defaults filled in. */
 export interface CheckedOptions {
   readonly policy: "error" | "drop";
@@ -41,22 +63,79 @@ export interface CheckedOptions {
   readonly source: string;
 }
 
+/** CSV options after validation, with defaults filled in. */
+export interface CheckedCsvOptions extends CheckedOptions {
+  readonly separator: string;
+}
+
 const OPTION_NAMES = ["missing", "types", "source"];
+const CSV_OPTION_NAMES = [...OPTION_NAMES, "fieldSeparator"];
 
 /**
- * Validates loader options, throwing `BAD_OPTION` for anything unknown or mistyped.
+ * Validates the options of the row and column loaders, throwing `BAD_OPTION` for anything
+ * unknown or mistyped (`fieldSeparator` included: rows and columns have no separator).
  *
  * @example
  * ```ts
  * import { checkOptions } from "./options.ts";
- * const checked = checkOptions({ missing: "drop" }, "CSV text");
+ * const checked = checkOptions({ missing: "drop" }, "rows");
  * checked.policy; // "drop"
- * checked.source; // "CSV text"
+ * checked.source; // "rows"
  * ```
  */
 export function checkOptions(
   options: LoadOptions | undefined,
   defaultSource: string,
+): CheckedOptions {
+  return checkShared(options, defaultSource, OPTION_NAMES);
+}
+
+/**
+ * Validates the options of the CSV loaders, throwing `BAD_OPTION` for anything unknown or
+ * mistyped.
+ *
+ * @example
+ * ```ts
+ * import { checkCsvOptions } from "./options.ts";
+ * const checked = checkCsvOptions({ fieldSeparator: ";" }, "CSV text");
+ * checked.separator; // ";"
+ * checked.source; // "CSV text"
+ * ```
+ */
+export function checkCsvOptions(
+  options: CsvOptions | undefined,
+  defaultSource: string,
+): CheckedCsvOptions {
+  const checked = checkShared(options, defaultSource, CSV_OPTION_NAMES);
+  return { ...checked, separator: checkFieldSeparator(options?.fieldSeparator) };
+}
+
+/**
+ * The field separator option checked (`","` when undefined); `BAD_OPTION` naming the option
+ * `fieldSeparator` when it is not one character that may separate fields.
+ *
+ * @example
+ * ```ts
+ * import { checkFieldSeparator } from "./options.ts";
+ * checkFieldSeparator(undefined); // ","
+ * checkFieldSeparator("\t"); // "\t" (a tab)
+ * ```
+ */
+export function checkFieldSeparator(value: unknown): string {
+  if (value === undefined) return DEFAULT_SEPARATOR;
+  const problem = separatorProblem(value);
+  if (problem === undefined) return value as string;
+  throw badOption(
+    "fieldSeparator",
+    `fieldSeparator is ${describeValue(value)}, but ${problem}`,
+    'Pass one character, such as ";", "|" or "\\t" (a tab); leave it out for a comma',
+  );
+}
+
+function checkShared(
+  options: LoadOptions | undefined,
+  defaultSource: string,
+  names: readonly string[],
 ): CheckedOptions {
   if (options === undefined) return { policy: "error", types: new Map(), source: defaultSource };
   if (!isPlainObject(options)) {
@@ -67,10 +146,17 @@ export function checkOptions(
     );
   }
   for (const key of Object.keys(options)) {
-    if (!OPTION_NAMES.includes(key)) {
+    if (key === "fieldSeparator" && !names.includes(key)) {
       throw badOption(
         key,
-        `there is no option ${JSON.stringify(key)}; the options are ${OPTION_NAMES.join(", ")}`,
+        "fieldSeparator applies to CSV input only; rows and columns in memory have no separator",
+        "Remove it, or read the CSV with parseCsv, readCsv or readCsvStream",
+      );
+    }
+    if (!names.includes(key)) {
+      throw badOption(
+        key,
+        `there is no option ${JSON.stringify(key)}; the options are ${names.join(", ")}`,
         "Remove it, or correct its spelling",
       );
     }
