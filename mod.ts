@@ -125,6 +125,8 @@ export {
   type NumberColumnSummary,
   parseRecord,
   type PenaltySection,
+  readRecordedData,
+  type RecordedReadOptions,
   recordJson,
   recordOf,
   type RecordOptions,

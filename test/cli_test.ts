@@ -300,7 +300,12 @@ const BAD: readonly { name: string; args: string[]; mentions: string[] }[] = [
   {
     name: "a semicolon file read with the default comma",
     args: ["sweep", "--data", `${CSV}/semicolon_cr.csv`, "--target", "y", "--term", "column:x"],
-    mentions: ["semicolon_cr.csv", "line 1", "semicolons", "--field-separator ';'"],
+    mentions: [
+      "semicolon_cr.csv",
+      "line 1: --field-separator: ",
+      "semicolons",
+      "--field-separator ';'",
+    ],
   },
   {
     name: "a bad value in a semicolon file with bare CR line ends",
@@ -772,10 +777,138 @@ Deno.test("cli: --field-separator reads a tab-separated file with bare CR line e
     const record = JSON.parse(await Deno.readTextFile(join(out, "record.json")));
     assert.equal(record.data.source, data[0]);
     delete record.data.source;
+    assert.equal(record.data.fieldSeparator, data.length > 1 ? "\t" : undefined);
+    delete record.data.fieldSeparator;
     records.push(record);
   }
-  assert.deepEqual(records[1], records[0], "same rows, same record (apart from the file name)");
+  assert.deepEqual(
+    records[1],
+    records[0],
+    "same rows, same record (apart from the file name and the separator)",
+  );
   const help = await runTask("curbfit", ["help", "fit"]);
   assert.match(help.stdout, /--field-separator CHAR .*tab/);
+  await Deno.remove(dir, { recursive: true });
+});
+
+Deno.test("cli: semicolon and tab files — sweep records the separator, verify reads it, the reproduce command gives it", async () => {
+  const dir = await Deno.makeTempDir();
+  const orchard = await Deno.readTextFile(join(ROOT, ORCHARD));
+  assert.ok(!orchard.includes('"') && !orchard.includes(";") && !orchard.includes("\t"));
+  const flags = [
+    "--target",
+    "brix",
+    "--term",
+    "legendre:days_since_blossom:4",
+    "--term",
+    "indicators:watering",
+    "--folds",
+    "5",
+    "--seed",
+    "3",
+    "--quiet",
+  ];
+  const cases = [
+    { name: "semicolon", char: ";", word: ";", plural: "semicolons", wrong: "tab", shown: "';'" },
+    { name: "tab", char: "\t", word: "tab", plural: "tabs", wrong: "|", shown: "tab" },
+  ];
+  for (const c of cases) {
+    const path = join(dir, `orchard_${c.name}.txt`);
+    await Deno.writeTextFile(path, orchard.replaceAll(",", c.char));
+    const out = join(dir, c.name);
+    const sweep = ["sweep", "--data", path, "--field-separator", c.word, ...flags];
+    const ran = await runTask("curbfit", [...sweep, "--out", out]);
+    assert.equal(ran.code, 0, ran.stderr);
+    const recordPath = join(out, "record.json");
+    const json = await Deno.readTextFile(recordPath);
+    const record = parseRecord(json);
+    assert.equal(record.data.fieldSeparator, c.char, `${c.name}: the record keeps the separator`);
+
+    // verify with the data file the record names, read with the recorded separator: a match.
+    const ok = await runTask("curbfit", ["verify", recordPath]);
+    assert.equal(ok.code, 0, ok.stdout + ok.stderr);
+    assert.match(ok.stdout, /^Record check: MATCH/);
+    assert.doesNotMatch(ok.stdout, /field separator/, "no note when nothing was overridden");
+    const same = await runTask("curbfit", [
+      "verify",
+      recordPath,
+      "--data",
+      path,
+      "--field-separator",
+      c.word,
+    ]);
+    assert.equal(same.code, 0, same.stdout + same.stderr);
+
+    // A wrong override is an input error, not a mismatch: the header line does not split with
+    // it and holds the recorded separator, so reading stops there (exit 2, one line).
+    const wrong = await runTask("curbfit", ["verify", recordPath, "--field-separator", c.wrong]);
+    assertOneLineError(wrong, [
+      path,
+      "line 1: --field-separator: ",
+      `probably separated by ${c.plural}`,
+      `The record says its data was read with ${c.plural}; leave out --field-separator`,
+    ]);
+    assert.doesNotMatch(wrong.stderr, /option fieldSeparator/, "the flag, not the API option");
+
+    // The reproduce command gives the separator and makes the identical record again.
+    const statementText = await Deno.readTextFile(join(out, "statement.md"));
+    assert.ok(
+      statementText.includes(`--field-separator ${c.shown}`),
+      `statement.md shows --field-separator ${c.shown}`,
+    );
+    const line = rerunCommand(record, path);
+    assert.ok(line !== null);
+    assert.ok(argvOf(line).join(" ").includes(`--data ${path} --field-separator ${c.word} `));
+    const again = join(dir, `${c.name}_again`);
+    const remade = await runTask("curbfit", [...argvOf(line), "--out", again, "--quiet"]);
+    assert.equal(remade.code, 0, remade.stderr);
+    assert.equal(await Deno.readTextFile(join(again, "record.json")), json);
+  }
+
+  // A comma record checked against the same rows in a semicolon file: --field-separator reads
+  // them, the report matches and its notes say the separator differs from the record's.
+  const commaOut = join(dir, "comma");
+  const made = await runTask("curbfit", [
+    "sweep",
+    "--data",
+    ORCHARD,
+    ...flags,
+    "--out",
+    commaOut,
+  ]);
+  assert.equal(made.code, 0, made.stderr);
+  const commaJson = await Deno.readTextFile(join(commaOut, "record.json"));
+  assert.ok(!commaJson.includes("fieldSeparator"), "no key for a comma file");
+  assert.ok(
+    !(rerunCommand(parseRecord(commaJson), ORCHARD)!.options.some(([o]) =>
+      o === "--field-separator"
+    )),
+  );
+  const semicolonPath = join(dir, "orchard_semicolon.txt");
+  const unflagged = await runTask("curbfit", [
+    "verify",
+    join(commaOut, "record.json"),
+    "--data",
+    semicolonPath,
+  ]);
+  assertOneLineError(unflagged, [
+    "--field-separator ';'",
+    "The record names no field separator (commas, or rows in memory)",
+  ]);
+  const overridden = await runTask("curbfit", [
+    "verify",
+    join(commaOut, "record.json"),
+    "--data",
+    semicolonPath,
+    "--field-separator",
+    ";",
+  ]);
+  assert.equal(overridden.code, 0, overridden.stdout + overridden.stderr);
+  assert.match(
+    overridden.stdout,
+    /The record names no field separator .*; these rows were read with semicolons/,
+  );
+  const help = await runTask("curbfit", ["help", "verify"]);
+  assert.match(help.stdout, /--field-separator CHAR .*instead of the record's/);
   await Deno.remove(dir, { recursive: true });
 });

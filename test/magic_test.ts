@@ -19,6 +19,7 @@ import {
   MagicError,
   power,
   product,
+  recordJson,
   ridge,
   sweep,
   tableFromColumns,
@@ -431,6 +432,44 @@ const BAD: Record<string, Bad> = {
     column: 1,
     message: /the template has no "predict" line/,
   },
+  "misspelt separator word": {
+    make: () =>
+      curbPlan`data "runs.txt" separated by semicolin
+  predict y
+  terms column x`,
+    line: 1,
+    column: 30,
+    message: /expected a separator \("comma", "semicolon", "tab", "bar" or "space", or one/,
+    suggestion: "semicolon",
+  },
+  "misspelt separated": {
+    make: () =>
+      curbPlan`data "runs.txt" seperated by tab
+  predict y
+  terms column x`,
+    line: 1,
+    column: 17,
+    message: /expected "separated by …" or the end of the line, but found "seperated"/,
+    suggestion: "separated",
+  },
+  "a separator of two characters": {
+    make: () =>
+      curbPlan`data "runs.txt" separated by ";;"
+  predict y
+  terms column x`,
+    line: 1,
+    column: 30,
+    message: /the separator is ";;", but it is 2 characters long; a separator is exactly one/,
+  },
+  "a separator after data in memory": {
+    make: () =>
+      curbPlan`data ${data} separated by tab
+  predict y
+  terms column x`,
+    line: 1,
+    column: 11,
+    message: /a table, rows or columns in memory have no field separator/,
+  },
   "bad domain, reported by the term at its place": {
     make: () =>
       curbPlan`data ${data}
@@ -731,5 +770,133 @@ Deno.test("sparse penalties: γ or λ with lasso, α with ridge, a bad mix — e
       assert.match((e as Error).message, message, what);
       return true;
     });
+  }
+});
+
+Deno.test("data line: a CSV path names its separator; it runs, prints readCsv with it and round-trips", async () => {
+  const forms: [string, ReturnType<typeof curbPlan>, string, number][] = [
+    [
+      "word",
+      curbPlan`data "runs.txt" separated by semicolon
+        predict y
+        terms column x`,
+      ";",
+      30,
+    ],
+    [
+      "plural",
+      curbPlan`data "runs.txt" separated by tabs
+        predict y
+        terms column x`,
+      "\t",
+      30,
+    ],
+    [
+      "quoted",
+      curbPlan`data "runs.txt" separated by "^"
+        predict y
+        terms column x`,
+      "^",
+      30,
+    ],
+    [
+      "interpolated",
+      curbPlan`data "runs.txt" separated by ${"|"}
+        predict y
+        terms column x`,
+      "|",
+      30,
+    ],
+  ];
+  for (const [form, plan, char, column] of forms) {
+    const node = plan.program.data;
+    assert.equal(node.kind, "file", form);
+    if (node.kind !== "file") continue;
+    assert.equal(node.fieldSeparator?.value, char, form);
+    assert.equal(node.fieldSeparator?.spot.column, column, form);
+    assert.ok(
+      plan.call.code.includes(`readCsv("runs.txt", { fieldSeparator: ${JSON.stringify(char)} })`),
+      plan.call.code,
+    );
+  }
+  const plain = curbPlan`data "runs.txt"
+    predict y
+    terms column x`;
+  assert.equal("fieldSeparator" in plain.program.data, false, "no separator named: none kept");
+  assert.match(plain.call.code, /readCsv\("runs\.txt"\);/);
+
+  const dir = await Deno.makeTempDir({ prefix: "curbfit-sep-" });
+  try {
+    const names = ["x", "z1", "y"];
+    const rows = cols.x.map((_, i) => names.map((n) => String(cols[n][i])));
+    const direct = sweep(cols, {
+      target: "y",
+      terms: [legendre("x", 5)],
+      folds: { k: 3, seed: 8 },
+    });
+    // The word form for semicolons; an interpolated character for tabs.
+    const plans: [string, string, (path: string) => ReturnType<typeof curbPlan>][] = [
+      ["semicolon", ";", (path) =>
+        curbPlan`
+        data ${path} separated by semicolon
+        predict y
+        terms legendre x degree 5
+        folds 3 seed 8
+      `],
+      ["tab", "\t", (path) =>
+        curbPlan`
+        data ${path} separated by ${"\t"}
+        predict y
+        terms legendre x degree 5
+        folds 3 seed 8
+      `],
+    ];
+    for (const [word, char, plan] of plans) {
+      const path = `${dir}/runs_${word}.txt`;
+      await Deno.writeTextFile(path, [names, ...rows].map((r) => r.join(char)).join("\n") + "\n");
+      const p = plan(path);
+      const result = await p.run({ progress: null }) as SweepResult;
+      assert.deepEqual(numbers(result), numbers(direct), `${word}: the same rows, the same sweep`);
+      assert.deepEqual(p.call.freeNames, []);
+      assert.ok(p.call.code.includes(`{ fieldSeparator: ${JSON.stringify(char)} }`), p.call.code);
+      const again = await evaluate(p.call, {}) as SweepResult;
+      assert.deepEqual(numbers(again), numbers(result), `${word}: the printed call, same numbers`);
+      assert.equal(JSON.parse(recordJson(result)).data.fieldSeparator, char, "kept in the record");
+      // Without the separator the file stops at its header line, reported at the data line.
+      await assert.rejects(
+        () =>
+          curbPlan`
+        data ${path}
+        predict y
+        terms legendre x degree 5`.run({ progress: null }),
+        (e: unknown) => {
+          assert.ok(e instanceof MagicError, String(e));
+          assert.equal(e.code, "BAD_OPTION");
+          assert.equal(e.line, 2);
+          assert.equal(e.column, 14);
+          assert.match(e.message, /line 1: the header line is one column name/);
+          assert.match(e.message, /Name the separator on the data line after the path/);
+          assert.doesNotMatch(e.message, /option fieldSeparator/);
+          return true;
+        },
+      );
+      // A wrong separator named: the same error, at the separator word.
+      await assert.rejects(
+        () =>
+          curbPlan`
+        data ${path} separated by bar
+        predict y
+        terms legendre x degree 5`.run({ progress: null }),
+        (e: unknown) => {
+          assert.ok(e instanceof MagicError, String(e));
+          assert.equal(e.code, "BAD_OPTION");
+          assert.deepEqual([e.line, e.column], [2, 32]);
+          assert.match(e.message, /read as separated by vertical bars\. Correct the separator/);
+          return true;
+        },
+      );
+    }
+  } finally {
+    await Deno.remove(dir, { recursive: true });
   }
 });

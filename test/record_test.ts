@@ -17,9 +17,12 @@ import {
   legendre,
   power,
   product,
+  readCsv,
+  readRecordedData,
   ridge,
   sweep,
   type SweepResult,
+  type Table,
   tableFromColumns,
   tableFromRows,
 } from "../mod.ts";
@@ -40,7 +43,7 @@ import { syntheticColumns } from "./helpers.ts";
 const COLS = syntheticColumns(41, 90, 1);
 
 function run(
-  cols: Record<string, readonly (number | string)[]> = COLS,
+  cols: Table | Record<string, readonly (number | string)[]> = COLS,
   folds: { k: number; seed: number } = { k: 5, seed: 17 },
 ): SweepResult {
   return sweep(cols, {
@@ -568,4 +571,166 @@ Deno.test("sparse record: a comparison of ridge, lasso and elastic net verifies;
       e instanceof CurbfitError && e.code === "BAD_RECORD" &&
       e.place.option === "record.comparison.candidates[1]",
   );
+});
+
+// ---- field separator --------------------------------------------------------------------------
+
+/** COLS written as CSV with `separator` between fields (numbers in shortest round-trip form). */
+function csvText(separator: string): string {
+  const names = Object.keys(COLS);
+  const rows = COLS.x.map((_, i) => names.map((n) => String(COLS[n][i])).join(separator));
+  return [names.join(separator), ...rows].join("\n") + "\n";
+}
+
+/** Writes COLS as CSV with each separator into a temporary folder; returns the paths. */
+async function writeSeparated(dir: string): Promise<Record<string, string>> {
+  const paths: Record<string, string> = {};
+  for (const [name, separator] of [["comma", ","], ["semicolon", ";"], ["tab", "\t"]]) {
+    paths[name] = `${dir}/cols_${name}.txt`;
+    await Deno.writeTextFile(paths[name], csvText(separator));
+  }
+  return paths;
+}
+
+Deno.test("record: data.fieldSeparator is absent for comma CSV and rows in memory (same bytes), and follows source otherwise", async () => {
+  const dir = await Deno.makeTempDir();
+  try {
+    const paths = await writeSeparated(dir);
+    const sourceLine = (label: string) => `"source": ${JSON.stringify(label)},`;
+    const comma = recordJson(run(await readCsv(paths.comma)));
+    assert.ok(!comma.includes("fieldSeparator"), "no key for a comma file");
+    assert.equal(
+      comma,
+      JSON_TEXT.replace(sourceLine("columns"), sourceLine(paths.comma)),
+      "a comma file's record is the in-memory record byte for byte, apart from the source label",
+    );
+    assert.ok(!JSON_TEXT.includes("fieldSeparator"), "no key for columns in memory");
+    const rows = recordJson(run(tableFromRows(COLS.x.map((_, i) => ({
+      x: COLS.x[i],
+      z1: COLS.z1[i],
+      y: COLS.y[i],
+    })))));
+    assert.ok(!rows.includes("fieldSeparator"), "no key for rows in memory");
+    for (
+      const [name, separator, written] of [
+        ["semicolon", ";", '";"'],
+        ["tab", "\t", '"\\t"'],
+      ]
+    ) {
+      const table = await readCsv(paths[name], { fieldSeparator: separator });
+      assert.equal(table.fieldSeparator, separator, "the table keeps its separator");
+      const text = recordJson(run(table));
+      assert.equal(
+        text,
+        comma.replace(
+          sourceLine(paths.comma),
+          `${sourceLine(paths[name])}\n    "fieldSeparator": ${written},`,
+        ),
+        `${name}: the comma file's record with the key added after source, nothing else`,
+      );
+      const doc = JSON.parse(text);
+      assert.deepEqual(Object.keys(doc.data), [
+        "source",
+        "fieldSeparator",
+        "rows",
+        "columns",
+        "missing",
+        "encoding",
+        "sha256",
+      ]);
+      assert.equal(doc.data.fieldSeparator, separator);
+      assert.equal(recordJson(parseRecord(text)), text, "parse then write keeps the bytes");
+      assert.equal(parseRecord(text).data.fieldSeparator, separator);
+    }
+    const explicitComma = await readCsv(paths.comma, { fieldSeparator: "," });
+    assert.equal(explicitComma.fieldSeparator, undefined, "a comma given explicitly is a comma");
+    assert.equal(recordJson(run(explicitComma)), comma);
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+});
+
+Deno.test("record: an edited data.fieldSeparator is BAD_RECORD naming the field", async () => {
+  const dir = await Deno.makeTempDir();
+  try {
+    const paths = await writeSeparated(dir);
+    const text = recordJson(run(await readCsv(paths.semicolon, { fieldSeparator: ";" })));
+    for (
+      const [value, pattern] of [
+        [",", /a comma is written by leaving fieldSeparator out/],
+        [";;", /exactly one character/],
+        ['"', /double quote/],
+        [59, /not text/],
+      ] as const
+    ) {
+      const edited = editable(text);
+      edited.data.fieldSeparator = value;
+      assert.throws(
+        () => parseRecord(JSON.stringify(edited)),
+        (e: unknown) =>
+          e instanceof CurbfitError && e.code === "BAD_RECORD" &&
+          e.place.option === "record.data.fieldSeparator" && pattern.test(e.message),
+        JSON.stringify(value),
+      );
+    }
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
+});
+
+Deno.test("verify: readRecordedData reads the recorded separator; another one is noted or stops at the header", async () => {
+  const dir = await Deno.makeTempDir();
+  try {
+    const paths = await writeSeparated(dir);
+    for (
+      const [name, separator, plural] of [
+        ["semicolon", ";", "semicolons"],
+        ["tab", "\t", "tabs"],
+      ]
+    ) {
+      const json = recordJson(run(await readCsv(paths[name], { fieldSeparator: separator })));
+      // Read back with the recorded separator: every check matches, no separator note.
+      const table = await readRecordedData(json, paths[name]);
+      assert.equal(table.fieldSeparator, separator);
+      const report = verify(json, table);
+      assert.equal(report.ok, true, report.text());
+      assert.ok(!report.notes.some((n) => n.includes("separator")), report.notes.join("\n"));
+      // The same rows in memory match too; the notes say they were not read with the separator.
+      const inMemory = verify(json, COLS);
+      assert.equal(inMemory.ok, true);
+      assert.ok(
+        inMemory.notes.some((n) =>
+          n.includes(`read with ${plural} between fields; these rows were not`)
+        ),
+        inMemory.notes.join("\n"),
+      );
+      // A wrong override: the header line holds the recorded separator and does not split, so
+      // the loader stops there (an error, not a mismatch: no rows are read).
+      const wrong = separator === ";" ? "\t" : ";";
+      await assert.rejects(
+        () => readRecordedData(json, paths[name], { fieldSeparator: wrong }),
+        (e: unknown) =>
+          e instanceof CurbfitError && e.code === "BAD_OPTION" &&
+          e.place.option === "fieldSeparator" && e.place.line === 1 &&
+          e.message.includes(`probably separated by ${plural}`),
+      );
+    }
+    // A comma record checked against the same rows in a semicolon file, by override: a match,
+    // and a note that the separators differ (the rows, not the separator, are compared).
+    const commaJson = recordJson(run(await readCsv(paths.comma)));
+    await assert.rejects(() => readRecordedData(commaJson, paths.semicolon), CurbfitError);
+    const semi = await readRecordedData(commaJson, paths.semicolon, { fieldSeparator: ";" });
+    const report = verify(commaJson, semi);
+    assert.equal(report.ok, true, report.text());
+    assert.ok(
+      report.notes.some((n) =>
+        n.startsWith("The record names no field separator") &&
+        n.includes("these rows were read with semicolons")
+      ),
+      report.notes.join("\n"),
+    );
+    assert.match(report.text(), /Notes:[^]*names no field separator/);
+  } finally {
+    await Deno.remove(dir, { recursive: true });
+  }
 });

@@ -281,8 +281,13 @@ export const COMMANDS: readonly CommandSpec[] = [
     options: [
       {
         ...data,
-        help: "the CSV file the record was made from, comma-separated (default: the file the " +
-          "record names)",
+        help: "the CSV file the record was made from (default: the file the record names), " +
+          "read with the field separator the record names (comma when it names none)",
+      },
+      {
+        ...fieldSeparator,
+        help: "read --data with this separator instead of the record's: one character such as " +
+          "';' or '|', or the word tab (the report notes when it differs from the record's)",
       },
     ],
   },

@@ -14,6 +14,7 @@ import {
 import { DEFAULT_TOLERANCE } from "../sparse/mod.ts";
 import { CLOSED_FORM_DEFAULT_ROWS } from "../sweep/sweep.ts";
 import { type CandidateKey, formatCandidate, formatPenalty, formatTerm } from "./syntax.ts";
+import { fieldSeparatorWord } from "./spec.ts";
 
 /**
  * One option of a command line: its name (with dashes) and value (absent for flags).
@@ -101,6 +102,12 @@ function foldWords(f: FoldsSection): Word[] | null {
   }
 }
 
+/** `--field-separator` when the record's data was read with another separator than a comma. */
+function separatorWords(record: ModelChoiceRecord): Word[] {
+  const separator = record.data.fieldSeparator;
+  return separator === undefined ? [] : [["--field-separator", fieldSeparatorWord(separator)]];
+}
+
 /** Whether a level would read as a number in a CSV file (so the column needs --category). */
 function looksNumeric(level: string): boolean {
   return /^\s*[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?\s*$/.test(level);
@@ -109,6 +116,8 @@ function looksNumeric(level: string): boolean {
 /**
  * The command that makes the record again, or null when its folds cannot be rebuilt from
  * settings (explicit folds; `verify` still checks such a record with its recorded assignment).
+ * A record whose data was read with another field separator than the comma gets
+ * `--field-separator` (the word `tab` for a tab).
  *
  * @example
  * ```ts
@@ -124,7 +133,10 @@ function looksNumeric(level: string): boolean {
 export function rerunCommand(record: ModelChoiceRecord, dataPath: string): CommandLine | null {
   const folds = foldWords(record.folds);
   if (folds === null) return null;
-  const data: Word[] = [["--data", dataPath], ["--target", record.target]];
+  const data: Word[] = [["--data", dataPath], ...separatorWords(record), [
+    "--target",
+    record.target,
+  ]];
   for (const c of record.data.columns) {
     if (c.kind === "category" && c.levels.some(looksNumeric)) data.push(["--category", c.name]);
   }

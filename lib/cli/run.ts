@@ -9,12 +9,20 @@
 import { join } from "node:path";
 import { CurbfitError, describePlace } from "../errors/error.ts";
 import { readCsv } from "../table/mod.ts";
+import { separatorName } from "../table/separator.ts";
 import { strengthSymbol } from "../fit/penalty.ts";
-import type { LoadOptions, Table } from "../table/mod.ts";
+import type { Table } from "../table/mod.ts";
 import { fit } from "../fit/fit.ts";
 import { sweep } from "../sweep/sweep.ts";
 import { compare } from "../sweep/compare.ts";
-import { type ModelChoiceRecord, parseRecord, recordJson, verify } from "../record/mod.ts";
+import {
+  type ModelChoiceRecord,
+  parseRecord,
+  readRecordedData,
+  recordedSeparator,
+  recordJson,
+  verify,
+} from "../record/mod.ts";
 import { showControls } from "../views/escape.ts";
 import { formatTextTable } from "../views/table.ts";
 import { statement } from "../statement/mod.ts";
@@ -29,6 +37,7 @@ import {
   compareCandidates,
   compareSettings,
   dataRequest,
+  fieldSeparatorOf,
   fitSpec,
   sweepSpec,
 } from "./spec.ts";
@@ -167,6 +176,7 @@ const FLAG_OF: Readonly<Record<string, string>> = {
   "alphas.ratio": "--alpha-ratio",
   tolerance: "--tolerance",
   closedForm: "--closed-form",
+  fieldSeparator: "--field-separator",
 };
 
 function flagOf(option: string): string | undefined {
@@ -343,9 +353,10 @@ const RUNNERS: Readonly<Record<string, Runner>> = {
         "Write curbfit verify out/demo/record.json",
       );
     }
+    const separator = fieldSeparatorOf(parsed);
     const record = await readRecord(path);
     const dataPath = optionValue(parsed, "data") ?? recordedDataPath(record);
-    const table = await readRecordedData(dataPath, record);
+    const table = await readVerifyData(record, dataPath, separator);
     const report = verify(record, table);
     io.out(report.text() + "\n");
     if (report.ok) return EXIT.ok;
@@ -406,16 +417,26 @@ function recordedDataPath(record: ModelChoiceRecord): string {
 }
 
 /**
- * Reads the data for `verify` as the record read it: the recorded missing-value policy, and
- * recorded category columns read as categories even when their levels look like numbers.
+ * Reads the data for `verify` as the record read it (`readRecordedData`), with the separator of
+ * `--field-separator` when given. An error about the separator also says which one the record
+ * names, and that leaving out `--field-separator` reads with it.
  */
-async function readRecordedData(path: string, record: ModelChoiceRecord): Promise<Table> {
-  const base: LoadOptions = { source: path, missing: record.data.missing.policy };
-  const table = await readCsv(path, base);
-  const categories = record.data.columns.filter((c) =>
-    c.kind === "category" && table.columns.get(c.name)?.kind === "number"
-  );
-  if (categories.length === 0) return table;
-  const types = Object.fromEntries(categories.map((c) => [c.name, "category" as const]));
-  return await readCsv(path, { ...base, types });
+async function readVerifyData(
+  record: ModelChoiceRecord,
+  path: string,
+  separator: string | undefined,
+): Promise<Table> {
+  try {
+    return await readRecordedData(record, path, { fieldSeparator: separator });
+  } catch (e) {
+    if (!(e instanceof CurbfitError) || e.place.option !== "fieldSeparator") throw e;
+    const recorded = recordedSeparator(record);
+    const names = record.data.fieldSeparator === undefined
+      ? "names no field separator (commas, or rows in memory)"
+      : `says its data was read with ${separatorName(recorded, true)}`;
+    const leaveOut = separator !== undefined && separator !== recorded
+      ? "; leave out --field-separator to read it so"
+      : "";
+    throw new CurbfitError(e.code, whatOf(e), `${e.hint}. The record ${names}${leaveOut}`, e.place);
+  }
 }

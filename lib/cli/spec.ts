@@ -69,11 +69,29 @@ export function dataRequest(parsed: ParsedArgs): { path: string; load: CsvOption
   };
 }
 
-/** The `--field-separator` character: one character as typed, or the word `tab`. */
-function fieldSeparatorOf(parsed: ParsedArgs): string | undefined {
+/** How a tab is written after `--field-separator` (a tab character is hard to type in a shell). */
+const TAB_WORD = "tab";
+
+/**
+ * The `--field-separator` character: one character as typed, or the word `tab`; undefined when
+ * the option was not given.
+ *
+ * @throws {CurbfitError} `BAD_OPTION` naming `--field-separator` for a value that cannot
+ * separate fields.
+ *
+ * @example
+ * ```ts
+ * import { commandNamed } from "./commands.ts";
+ * import { parseArgs } from "./args.ts";
+ * import { fieldSeparatorOf } from "./spec.ts";
+ * const parsed = parseArgs(commandNamed("verify")!, ["r.json", "--field-separator", "tab"]);
+ * console.log(fieldSeparatorOf(parsed) === "\t"); // true
+ * ```
+ */
+export function fieldSeparatorOf(parsed: ParsedArgs): string | undefined {
   const text = optionValue(parsed, "field-separator");
   if (text === undefined) return undefined;
-  const separator = text === "tab" ? "\t" : text;
+  const separator = text === TAB_WORD ? "\t" : text;
   const problem = separatorProblem(separator);
   if (problem === undefined) return separator;
   throw usageError(
@@ -81,6 +99,20 @@ function fieldSeparatorOf(parsed: ParsedArgs): string | undefined {
     `--field-separator is ${JSON.stringify(text)}, but ${problem}`,
     "Write one character in quotes, e.g. --field-separator ';', or --field-separator tab",
   );
+}
+
+/**
+ * A field separator as the value of `--field-separator`: the word `tab` for a tab, else the
+ * character itself (a shell still has to quote most of them; see `shellWord` in rerun.ts).
+ *
+ * @example
+ * ```ts
+ * import { fieldSeparatorWord } from "./spec.ts";
+ * console.log(fieldSeparatorWord("\t"), fieldSeparatorWord(";")); // tab ;
+ * ```
+ */
+export function fieldSeparatorWord(separator: string): string {
+  return separator === "\t" ? TAB_WORD : separator;
 }
 
 /** The target column (required). */

@@ -4,9 +4,10 @@
  * template runs, so running the printed code on the same data gives the same numbers.
  *
  * Free names in the printed code: `data` (the value interpolated on the `data` line; when the
- * template names a CSV file, the code reads it itself) and `plan` (a fold plan interpolated on
- * the `folds` line). Everything else — terms, γ, λ grid, seeds — is written out literally;
- * numbers are printed with JavaScript's shortest round-trip form, so they parse back exactly.
+ * template names a CSV file, the code reads it itself, with the `fieldSeparator` the data line
+ * names) and `plan` (a fold plan interpolated on the `folds` line). Everything else — terms, γ,
+ * λ grid, seeds — is written out literally; numbers are printed with JavaScript's shortest
+ * round-trip form, so they parse back exactly.
  *
  * @module
  */
@@ -101,7 +102,11 @@ export function apiCallOf(program: CurbProgram, job: Job): ApiCall {
   const preamble: string[] = [];
   if (program.data.kind === "file") {
     uses.add("readCsv");
-    preamble.push(`const data = await readCsv(${JSON.stringify(program.data.path)});`);
+    const separator = program.data.fieldSeparator;
+    const options = separator === undefined
+      ? ""
+      : `, ${literal({ fieldSeparator: separator.value }, 0)}`;
+    preamble.push(`const data = await readCsv(${JSON.stringify(program.data.path)}${options});`);
   } else {
     free.push("data");
     preamble.push(

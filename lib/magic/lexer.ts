@@ -71,7 +71,9 @@ const FOREIGN: Readonly<Record<string, string>> = {
   "]": 'write a list as numbers separated by commas, e.g. "lambda 0.1, 1, 10"',
   "+": 'separate terms with commas, e.g. "terms column a, column b"',
   "*": 'write a product of two terms with "times", e.g. "terms column a times indicators b"',
-  ";": "put each statement on its own line",
+  ";": "put each statement on its own line; a semicolon between a CSV file's fields is named " +
+    'as a word: data "plots.txt" separated by semicolon',
+  "|": 'name a separator as a word or in quotes: data "plots.txt" separated by bar',
 };
 
 /**

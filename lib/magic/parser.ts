@@ -20,6 +20,7 @@ import { MagicError, type Spot } from "./error.ts";
 import { lexTemplate, type SourceLine } from "./lexer.ts";
 import { Cursor, describeValue, type Named, spanOf } from "./cursor.ts";
 import { listWords, nearestWord } from "./words.ts";
+import { separatorProblem } from "../table/separator.ts";
 
 /** The statement words, in the order README.md documents them. */
 export const STATEMENTS = [
@@ -67,17 +68,30 @@ const SHARED_ONLY: readonly Statement[] = ["data", "predict", "folds"];
 
 /**
  * Where the rows come from: an interpolated value (table, rows, columns) or a CSV file path,
- * with the spot of the value or path on the `data` line.
+ * with the spot of the value or path on the `data` line; a path may name its field separator
+ * (`data "plots.txt" separated by semicolon`), kept with the spot where it was named.
  *
  * @example
  * ```ts
  * import type { DataNode } from "./parser.ts";
  * const file: DataNode = { kind: "file", path: "orchard.csv", spot: { line: 2, column: 8, length: 13 } };
+ * const tabs: DataNode = {
+ *   kind: "file",
+ *   path: "orchard.tsv",
+ *   spot: { line: 2, column: 8, length: 13 },
+ *   fieldSeparator: { value: "\t", spot: { line: 2, column: 35, length: 3 } },
+ * };
  * ```
  */
 export type DataNode =
   | { readonly kind: "value"; readonly value: unknown; readonly spot: Spot }
-  | { readonly kind: "file"; readonly path: string; readonly spot: Spot };
+  | {
+    readonly kind: "file";
+    readonly path: string;
+    readonly spot: Spot;
+    /** The character after `separated by`; absent when the line names none (a comma). */
+    readonly fieldSeparator?: { readonly value: string; readonly spot: Spot };
+  };
 
 /**
  * One term with the columns it names (for checking them against the data).
@@ -403,7 +417,63 @@ function checkPlacement(
   }
 }
 
+/** The words `separated by` takes, each with the character it stands for. */
+const SEPARATOR_WORDS: Readonly<Record<string, string>> = {
+  comma: ",",
+  semicolon: ";",
+  tab: "\t",
+  bar: "|",
+  space: " ",
+};
+const SEPARATOR_NAMES = Object.keys(SEPARATOR_WORDS);
+/** The names and their plurals (`separated by semicolons` reads as well). */
+const SEPARATOR_ACCEPTED = [...SEPARATOR_NAMES, ...SEPARATOR_NAMES.map((w) => `${w}s`)];
+const SEPARATOR_HINT = 'Write e.g. data "plots.txt" separated by semicolon; any other ' +
+  'character goes in quotes, e.g. separated by "^"';
+
+/** `data …`, then `separated by SEPARATOR` after a CSV path. */
 function readData(c: Cursor): DataNode {
+  const node = readDataSource(c);
+  if (c.peek() === undefined) return node;
+  const start = c.here();
+  c.word(["separated"], '"separated by …" or the end of the line', SEPARATOR_HINT);
+  if (node.kind !== "file") {
+    throw c.error(
+      "a table, rows or columns in memory have no field separator",
+      'Name a separator only after a CSV path, e.g. data "plots.txt" separated by semicolon',
+      start,
+    );
+  }
+  c.word(["by"], '"by"', SEPARATOR_HINT);
+  return { ...node, fieldSeparator: readSeparator(c) };
+}
+
+/** A separator word (`semicolon`, `tabs`, …), or one character in quotes or in `${…}`. */
+function readSeparator(c: Cursor): { value: string; spot: Spot } {
+  const t = c.peek();
+  if (t?.kind === "string" || (t?.kind === "value" && typeof t.value === "string")) {
+    c.take();
+    const value = t.value as string;
+    const problem = separatorProblem(value);
+    if (problem !== undefined) {
+      throw c.error(
+        `the separator is ${JSON.stringify(value)}, but ${problem}`,
+        SEPARATOR_HINT,
+        t.spot,
+      );
+    }
+    return { value, spot: t.spot };
+  }
+  const spot = c.here();
+  const word = c.word(
+    SEPARATOR_ACCEPTED,
+    `a separator (${listWords(SEPARATOR_NAMES)}, or one character in quotes)`,
+    SEPARATOR_HINT,
+  );
+  return { value: SEPARATOR_WORDS[word.replace(/s$/, "")], spot };
+}
+
+function readDataSource(c: Cursor): DataNode {
   const t = c.peek();
   if (t?.kind === "string") {
     c.take();

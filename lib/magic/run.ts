@@ -11,6 +11,7 @@ import { sweepAsync, type SweepResult } from "../sweep/sweep.ts";
 import { compareAsync, type ComparisonResult } from "../sweep/compare.ts";
 import { isFoldPlan } from "../sweep/folds.ts";
 import { type Bundle, type DisplaySink, progressDisplay } from "../kernel/progress.ts";
+import { CurbfitError, describePlace } from "../errors/error.ts";
 import { MagicError } from "./error.ts";
 import type { Named } from "./cursor.ts";
 import type { Job } from "./job.ts";
@@ -76,7 +77,7 @@ export async function runJob(
 }
 
 async function loadData(node: DataNode, program: CurbProgram): Promise<Table> {
-  if (node.kind === "file") return await readCsv(node.path);
+  if (node.kind === "file") return await readFile(node, program);
   const value = await node.value;
   if (typeof value !== "object" || value === null) {
     throw new MagicError(
@@ -88,6 +89,34 @@ async function loadData(node: DataNode, program: CurbProgram): Promise<Table> {
     );
   }
   return toTable(value as Parameters<typeof toTable>[0]);
+}
+
+/**
+ * Reads a CSV path with the separator the data line names. A file that seems to use another
+ * separator is reported at the data line, with how to name it there.
+ */
+async function readFile(
+  node: Extract<DataNode, { kind: "file" }>,
+  program: CurbProgram,
+): Promise<Table> {
+  const separator = node.fieldSeparator;
+  try {
+    return await readCsv(node.path, { fieldSeparator: separator?.value });
+  } catch (e) {
+    if (!(e instanceof CurbfitError) || e.place.option !== "fieldSeparator") throw e;
+    const spot = separator?.spot ?? node.spot;
+    const where = describePlace({ ...e.place, option: undefined });
+    const what = where + e.message.slice(describePlace(e.place).length, -(e.hint.length + 2));
+    throw new MagicError(
+      e.code,
+      what,
+      `${separator === undefined ? "Name" : "Correct"} the separator on the data line after ` +
+        "the path, e.g. separated by semicolon (or tab, bar, space, or one character in quotes); " +
+        "if this really is one column, write its name in double quotes",
+      spot,
+      program.lines[spot.line - 1].text,
+    );
+  }
 }
 
 /** Every column named in the template must be in the data. */

@@ -137,6 +137,7 @@ export function softwareSection(): SoftwareSection {
 export function dataSection(data: DataSummary): DataSection {
   return {
     source: data.source,
+    ...(data.fieldSeparator === undefined ? {} : { fieldSeparator: data.fieldSeparator }),
     rows: data.rows,
     columns: data.columns.map((c) =>
       c.kind === "number"

@@ -7,6 +7,7 @@
  */
 import { createHash } from "node:crypto";
 import type { Column, Table } from "../table/types.ts";
+import { DEFAULT_SEPARATOR } from "../table/separator.ts";
 
 /**
  * Name of the byte encoding hashed into `sha256`; changing the layout needs a new name.
@@ -81,6 +82,11 @@ export type ColumnSummary = NumberColumnSummary | CategoryColumnSummary;
 export interface DataSummary {
   /** The table's source label: a file path, "CSV text", "stream", "rows" or "columns". */
   readonly source: string;
+  /**
+   * The field separator the CSV was read with when it was not the comma (`table.fieldSeparator`);
+   * absent for commas and for rows and columns in memory.
+   */
+  readonly fieldSeparator?: string;
   /** Rows used (after the missing-value policy). */
   readonly rows: number;
   /** The columns the model read, sorted by name (UTF-16 code units). */
@@ -96,7 +102,9 @@ export interface DataSummary {
 /**
  * Summarizes and fingerprints the named columns of `table` (names absent from the table are
  * skipped: the caller reports them). Columns are taken in sorted name order, so the digest does
- * not depend on the order of columns in the source or of terms in a spec.
+ * not depend on the order of columns in the source or of terms in a spec. The field separator
+ * of a CSV table read with one other than the comma is kept beside the source; it does not
+ * enter the digest, which depends on the parsed rows alone.
  *
  * @example
  * ```ts
@@ -112,8 +120,12 @@ export function summarizeData(table: Table, names: readonly string[]): DataSumma
     return column === undefined ? [] : [column];
   });
   const { sha256, ranges } = digestRows(table.nRows, columns);
+  const separator = table.fieldSeparator;
   return {
     source: table.source,
+    ...(separator === undefined || separator === DEFAULT_SEPARATOR
+      ? {}
+      : { fieldSeparator: separator }),
     rows: table.nRows,
     columns: columns.map((column, j) => summarizeColumn(column, ranges[j])),
     missing: { policy: table.missing.policy, droppedLines: [...table.missing.droppedLines] },

@@ -23,6 +23,7 @@ export { recordJson } from "./json.ts";
 export { parseRecord } from "./parse.ts";
 export { type LoadedModel, type LoadedRecord, loadRecord } from "./load.ts";
 export { verify } from "./verify.ts";
+export { readRecordedData, type RecordedReadOptions, recordedSeparator } from "./read.ts";
 export type { VerifyReport } from "./report.ts";
 export { RELATIVE_TOLERANCE, type Shown, TOLERANCE, type VerifyEntry } from "./checks.ts";
 export {

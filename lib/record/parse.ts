@@ -11,6 +11,7 @@ import { deepFreeze } from "../common/freeze.ts";
 import type { Json } from "../design/types.ts";
 import type { FoldScheme } from "../folds/mod.ts";
 import type { ColumnSummary } from "./fingerprint.ts";
+import { DEFAULT_SEPARATOR, separatorProblem } from "../table/separator.ts";
 import { recordBundle, withDisplay } from "../views/display.ts";
 import {
   type ChoiceSection,
@@ -148,11 +149,17 @@ function software(v: unknown, path: string): SoftwareSection {
   };
 }
 
+const DATA_KEYS = ["source", "rows", "columns", "missing", "encoding", "sha256"];
+
 function data(v: unknown, path: string): DataSection {
-  const o = fields(v, path, ["source", "rows", "columns", "missing", "encoding", "sha256"]);
+  const separated = isObject(v) && "fieldSeparator" in v;
+  const o = fields(v, path, separated ? ["fieldSeparator", ...DATA_KEYS] : DATA_KEYS);
   const m = fields(o.missing, `${path}.missing`, ["policy", "droppedLines"]);
   return {
     source: text(o.source, `${path}.source`),
+    ...(separated
+      ? { fieldSeparator: fieldSeparator(o.fieldSeparator, `${path}.fieldSeparator`) }
+      : {}),
     rows: whole(o.rows, `${path}.rows`),
     columns: list(o.columns, `${path}.columns`, columnSummary),
     missing: {
@@ -162,6 +169,17 @@ function data(v: unknown, path: string): DataSection {
     encoding: text(o.encoding, `${path}.encoding`),
     sha256: digest(o.sha256, `${path}.sha256`),
   };
+}
+
+/** A field separator other than the comma (a comma is written by leaving the key out). */
+function fieldSeparator(v: unknown, path: string): string {
+  const s = text(v, path);
+  if (s === DEFAULT_SEPARATOR) {
+    throw bad(path, 'is ",", but a comma is written by leaving fieldSeparator out');
+  }
+  const problem = separatorProblem(s);
+  if (problem !== undefined) throw bad(path, `is ${show(s)}, but ${problem}`);
+  return s;
 }
 
 function columnSummary(v: unknown, path: string): ColumnSummary {

@@ -81,6 +81,12 @@ export interface SoftwareSection {
 export interface DataSection {
   /** The table's source label: a file path, "CSV text", "stream", "rows" or "columns". */
   readonly source: string;
+  /**
+   * The one character between fields when the data was CSV read with one other than the comma
+   * (e.g. `";"`, `"\t"`); absent for commas and for rows and columns in memory, and in records
+   * written before curbfit kept it, which read with commas.
+   */
+  readonly fieldSeparator?: string;
   /** Rows used (after the missing-value policy). */
   readonly rows: number;
   /** The columns the model read, sorted by name. */

@@ -22,6 +22,7 @@
 import { CurbfitError } from "../errors/error.ts";
 import type { Table } from "../table/types.ts";
 import { toTable } from "../table/mod.ts";
+import { separatorName } from "../table/separator.ts";
 import { termFromSpec } from "../design/mod.ts";
 import type { TableInput } from "../fit/fit.ts";
 import { ridge } from "../fit/penalty.ts";
@@ -422,7 +423,10 @@ function checkComparison(checks: Checks, rec: ComparisonSection, now: Comparison
 
 // ---- notes ---------------------------------------------------------------------------------
 
-/** Context that is not compared: who wrote the record, when, and from which source. */
+/**
+ * Context that is not compared: who wrote the record, when, from which source, and a field
+ * separator that differs from the record's.
+ */
 function notes(rec: ModelChoiceRecord, table: Table): string[] {
   const then = rec.software;
   const now = softwareSection();
@@ -442,6 +446,8 @@ function notes(rec: ModelChoiceRecord, table: Table): string[] {
     }
   }
   if (rec.created !== null) out.push(`Record created ${rec.created}.`);
+  const separatorNote = separatorDifference(rec.data.fieldSeparator, table.fieldSeparator);
+  if (separatorNote !== undefined) out.push(separatorNote);
   if (rec.data.source !== table.source) {
     out.push(
       `The record's data came from ${JSON.stringify(rec.data.source)}; these rows from ` +
@@ -449,6 +455,24 @@ function notes(rec: ModelChoiceRecord, table: Table): string[] {
     );
   }
   return out;
+}
+
+/**
+ * A note when the rows were read with another field separator than the record's data (not
+ * compared: the fingerprint of the parsed rows is). Undefined means a comma, or rows in memory.
+ */
+function separatorDifference(
+  recorded: string | undefined,
+  now: string | undefined,
+): string | undefined {
+  if (recorded === now) return undefined;
+  const then = recorded === undefined
+    ? "The record names no field separator (its data was comma-separated CSV, or rows in memory)"
+    : `The record's data was read with ${separatorName(recorded, true)} between fields`;
+  const these = now === undefined
+    ? "these rows were not (commas, or rows in memory)"
+    : `these rows were read with ${separatorName(now, true)}`;
+  return `${then}; ${these}. The fingerprint of the rows, not the separator, is compared.`;
 }
 
 export type { VerifyEntry, VerifyReport };

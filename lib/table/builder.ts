@@ -298,8 +298,12 @@ export class TableBuilder {
     this.#rows++;
   }
 
-  /** Checks the whole table (rows, all-missing columns, missing policy) and freezes it. */
-  finish(): Table {
+  /**
+   * Checks the whole table (rows, all-missing columns, missing policy) and freezes it.
+   * `fieldSeparator` is kept as `table.fieldSeparator` (the CSV loaders pass one that is not
+   * the comma).
+   */
+  finish(fieldSeparator?: string): Table {
     const { source, policy } = this.#options;
     if (this.#rows === 0) {
       throw new CurbfitError(
@@ -347,6 +351,7 @@ export class TableBuilder {
       names: this.#names,
       columns,
       source,
+      ...(fieldSeparator === undefined ? {} : { fieldSeparator }),
       lineOfRow: keep === undefined ? lines : this.#lines.collect(keep),
       missing: Object.freeze({
         policy,

@@ -9,7 +9,12 @@ import { CsvTokenizer } from "./csv_tokenizer.ts";
 import { TableBuilder } from "./builder.ts";
 import { checkCsvOptions, type CheckedCsvOptions, type CsvOptions } from "./options.ts";
 import { count, describeValue } from "./describe.ts";
-import { checkHeaderSeparator, likelySeparator, separatorName } from "./separator.ts";
+import {
+  checkHeaderSeparator,
+  DEFAULT_SEPARATOR,
+  likelySeparator,
+  separatorName,
+} from "./separator.ts";
 import type { Table } from "./types.ts";
 
 const BYTE_ORDER_MARK = 0xfeff;
@@ -58,7 +63,8 @@ class CsvLoader {
         { source: this.#options.source },
       );
     }
-    return this.#builder.finish();
+    const { separator } = this.#options;
+    return this.#builder.finish(separator === DEFAULT_SEPARATOR ? undefined : separator);
   }
 
   #record(fields: string[], line: number, quoted: boolean): void {

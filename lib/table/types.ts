@@ -48,6 +48,12 @@ export interface Table {
   readonly columns: ReadonlyMap<string, Column>;
   /** Where the data came from: a file path, "CSV text", "stream", "rows" or "columns". */
   readonly source: string;
+  /**
+   * The field separator CSV input was read with, when it was not the comma (`";"`, `"\t"`, …);
+   * absent for comma-separated CSV and for rows and columns in memory. Model-choice records
+   * keep it, so their data can be read again the same way (lib/record/README.md).
+   */
+  readonly fieldSeparator?: string;
   /** Source line (or 1-based row number) of each kept row, for messages that point at data. */
   readonly lineOfRow: Int32Array;
   /** The missing-value policy applied and which source rows it dropped. */
