@@ -193,6 +193,7 @@ export {
   foldOfKey,
   foldsOfKeys,
   type HashFoldRequest,
+  hashFoldPlan,
   type HashFolds,
   type ReadStats,
   type ScaleProgress,

@@ -17,13 +17,16 @@
  *    (lib/sql/sums.ts).
  *
  * The fold of a row is the fold hash `curbfit.fold-hash/1` (lib/stream/README.md) in BIGINT
- * arithmetic: every product is below 2^62, so nothing overflows.
+ * arithmetic: every product is below 2^62, so nothing overflows. With repeated fold plans the
+ * ranges and moments queries group by the folds of several repeats at once (one fold column per
+ * repeat, `SqlShape.hashes`): one scan computes every row's values once, and the client adds up
+ * the groups of each repeat's folds ({@link repeatBatches} keeps the groups few).
  *
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
 import type { Json, LearnedTerm } from "../design/types.ts";
-import type { FoldRanges } from "../stream/ranges.ts";
+import { type FoldRanges, rowCount } from "../stream/ranges.ts";
 import { quoteIdentifier, type SqlDialect } from "./dialect.ts";
 import { legendreFromChebyshev } from "./chebyshev.ts";
 import type { SqlRows } from "./connection.ts";
@@ -154,7 +157,13 @@ export interface SqlShape {
   /** A SELECT statement to read from instead of a table (trusted SQL). */
   readonly query: string | null;
   readonly key: string;
+  /** The fold hash grouped by, unless `hashes` is given. */
   readonly hash: FoldHash;
+  /**
+   * Fold hashes of several repeats grouped by together, one fold column each in this order
+   * (instead of `hash`); a row's group is then its folds in all of them.
+   */
+  readonly hashes?: readonly FoldHash[];
   /** Columns the table is partitioned by, added to GROUP BY. */
   readonly partitionBy: readonly string[];
   /** Columns that must not be NULL when rows with NULLs are dropped (else empty). */
@@ -191,16 +200,33 @@ class Params {
   }
 }
 
-/** The fold expression: curbfit.fold-hash/1 of the key column. */
-function foldExpression(shape: SqlShape, params: Params): string {
+/** The fold hashes a query groups by: `hashes`, else `hash`. */
+function groupedHashes(shape: SqlShape): readonly FoldHash[] {
+  return shape.hashes ?? [shape.hash];
+}
+
+/** The fold expression: curbfit.fold-hash/1 of the key column with `hash`'s coefficients. */
+function foldExpression(shape: SqlShape, params: Params, hash: FoldHash): string {
   const p = String(FOLD_HASH_PRIME);
-  const [a0, a1, a2, a3] = shape.hash.coefficients.map((a) => params.bigint(a));
+  const [a0, a1, a2, a3] = hash.coefficients.map((a) => params.bigint(a));
   const key = `CAST(${quoteIdentifier(shape.dialect, shape.key)} AS BIGINT)`;
   const x = `((${key} % ${p}) + ${p}) % ${p}`;
   let h = `(((${a3} * (${x})) % ${p}) + ${a2}) % ${p}`;
   h = `((((${h}) * (${x})) % ${p}) + ${a1}) % ${p}`;
   h = `((((${h}) * (${x})) % ${p}) + ${a0}) % ${p}`;
-  return `(${h}) % ${params.bigint(shape.hash.k)}`;
+  return `(${h}) % ${params.bigint(hash.k)}`;
+}
+
+/**
+ * The fold columns of a query over the grouped hashes: `curbfit_fold` for one, else
+ * `curbfit_fold_<repeat>` for each.
+ */
+function foldGroups(shape: SqlShape, params: Params): Group[] {
+  const hashes = groupedHashes(shape);
+  return hashes.map((hash) => ({
+    expression: foldExpression(shape, params, hash),
+    alias: hashes.length === 1 ? "curbfit_fold" : `curbfit_fold_${hash.repeat}`,
+  }));
 }
 
 function fromClause(shape: SqlShape): string {
@@ -216,18 +242,24 @@ function whereClause(shape: SqlShape): string {
   return ` WHERE ${tests.join(" AND ")}`;
 }
 
-/** SELECT group AS alias, partition columns, aggregates … GROUP BY the group and partitions. */
+/** A grouping expression and its output name. */
+interface Group {
+  readonly expression: string;
+  readonly alias: string;
+}
+
+/** SELECT groups AS aliases, partition columns, aggregates … GROUP BY the groups and partitions. */
 function groupedQuery(
   shape: SqlShape,
   params: Params,
   aggregates: readonly string[],
-  group: string,
-  alias = "curbfit_fold",
+  groups: readonly Group[],
 ): SqlQuery {
   const parts = shape.partitionBy.map((c) => quoteIdentifier(shape.dialect, c));
-  const select = [`${group} AS ${alias}`, ...parts, ...aggregates];
+  const select = [...groups.map((g) => `${g.expression} AS ${g.alias}`), ...parts, ...aggregates];
+  const by = [...groups.map((g) => g.expression), ...parts];
   const text = `SELECT ${select.join(", ")} FROM ${fromClause(shape)}${whereClause(shape)} ` +
-    `GROUP BY ${[group, ...parts].join(", ")}`;
+    `GROUP BY ${by.join(", ")}`;
   return { text, params: params.values };
 }
 
@@ -242,7 +274,8 @@ function asText(shape: SqlShape, column: string): string {
 
 /**
  * The ranges query: per fold (and partition), COUNT(*), then per numeric column MIN and MAX,
- * per shifted column SUM, and per checked column COUNT(column) (non-null rows).
+ * per shifted column SUM, and per checked column COUNT(column) (non-null rows). With
+ * `shape.hashes`, per combination of the repeats' folds: one fold column per repeat first.
  *
  * @example
  * ```ts
@@ -260,14 +293,60 @@ export function rangesQuery(
   counted: readonly string[],
 ): SqlQuery {
   const params = new Params(shape.dialect);
-  const fold = foldExpression(shape, params);
-  const aggregates = [
+  const folds = foldGroups(shape, params);
+  return groupedQuery(shape, params, rangesAggregates(shape, ranged, summed, counted), folds);
+}
+
+/** The aggregates of the ranges query (after its fold and partition columns). */
+function rangesAggregates(
+  shape: SqlShape,
+  ranged: readonly string[],
+  summed: readonly string[],
+  counted: readonly string[],
+): string[] {
+  return [
     "CAST(COUNT(*) AS DOUBLE PRECISION)",
     ...ranged.flatMap((c) => [`MIN(${asDouble(shape, c)})`, `MAX(${asDouble(shape, c)})`]),
     ...summed.map((c) => `SUM(${asDouble(shape, c)})`),
     ...counted.map((c) => `CAST(COUNT(${quoteIdentifier(shape.dialect, c)}) AS DOUBLE PRECISION)`),
   ];
-  return groupedQuery(shape, params, aggregates, fold);
+}
+
+/**
+ * Most fold groups (per partition) one query of {@link repeatBatches} makes: 1000, i.e. 3
+ * repeats of 10 folds, 4 of 5, 9 of 2. Measured (README.md of lib/sql): grouping 3 repeats of 10
+ * folds in one scan took about the time of one repeat on PostgreSQL and DuckDB; 10 000 groups
+ * were slower than two scans on DuckDB, where sending groups × sums to the client then costs
+ * more than a scan.
+ *
+ * @example
+ * ```ts
+ * import { MAX_FOLD_GROUPS } from "./query.ts";
+ * console.log(MAX_FOLD_GROUPS); // 1000
+ * ```
+ */
+export const MAX_FOLD_GROUPS = 1000;
+
+/**
+ * Repeats 0 … repeats − 1 split into consecutive batches, each grouped by one query (one scan):
+ * a batch of b repeats makes up to k^b fold groups (per partition), so each batch is as long as
+ * keeps k^b within `groups` ({@link MAX_FOLD_GROUPS}), and at least one repeat.
+ *
+ * @example
+ * ```ts
+ * import { repeatBatches } from "./query.ts";
+ * console.log(repeatBatches(3, 10)); // [ [ 0, 1, 2 ] ]: 1000 groups
+ * console.log(repeatBatches(3, 20)); // [ [ 0, 1 ], [ 2 ] ]: 400 groups, then 20
+ * ```
+ */
+export function repeatBatches(repeats: number, k: number, groups = MAX_FOLD_GROUPS): number[][] {
+  let size = 1;
+  while (size < repeats && k ** (size + 1) <= groups) size++;
+  const batches: number[][] = [];
+  for (let start = 0; start < repeats; start += size) {
+    batches.push(Array.from({ length: Math.min(size, repeats - start) }, (_, i) => start + i));
+  }
+  return batches;
 }
 
 /**
@@ -307,7 +386,8 @@ export function countQuery(shape: SqlShape): SqlQuery {
 export function levelsQuery(shape: SqlShape, column: string): SqlQuery {
   const params = new Params(shape.dialect);
   const count = "CAST(COUNT(*) AS DOUBLE PRECISION)";
-  return groupedQuery(shape, params, [count], asText(shape, column), "curbfit_level");
+  const level = { expression: asText(shape, column), alias: "curbfit_level" };
+  return groupedQuery(shape, params, [count], [level]);
 }
 
 /**
@@ -523,8 +603,10 @@ function itemSql(
 
 /**
  * The moments queries: per fold (and partition) COUNT(*) and the SUM items, split into
- * queries of at most `maxAggregates` sums (PostgreSQL allows 1664 output columns). `bucket`
- * replaces the fold by (fold = f ? 1 : 0) for re-reading one fold in its own basis.
+ * queries of at most `maxAggregates` sums (PostgreSQL allows 1664 output columns). With
+ * `shape.hashes`, per combination of the repeats' folds (one fold column per repeat first).
+ * `bucket` replaces the fold by (fold = f ? 1 : 0) of `shape.hash`, for re-reading one fold in
+ * its own basis.
  *
  * @example
  * ```ts
@@ -546,15 +628,17 @@ export function momentsQueries(
   const queries: SqlQuery[] = [];
   for (let start = 0; start === 0 || start < items.length; start += maxAggregates) {
     const params = new Params(shape.dialect);
-    const hashed = foldExpression(shape, params);
-    const fold = bucket === null
-      ? hashed
-      : `(CASE WHEN ${hashed} = ${params.bigint(bucket)} THEN 1 ELSE 0 END)`;
+    const folds = bucket === null ? foldGroups(shape, params) : [{
+      expression: `(CASE WHEN ${foldExpression(shape, params, shape.hash)} = ${
+        params.bigint(bucket)
+      } THEN 1 ELSE 0 END)`,
+      alias: "curbfit_fold",
+    }];
     const sums = items.slice(start, start + maxAggregates).map((it) =>
       itemSql(shape, params, blocks, it)
     );
     queries.push(
-      groupedQuery(shape, params, ["CAST(COUNT(*) AS DOUBLE PRECISION)", ...sums], fold),
+      groupedQuery(shape, params, ["CAST(COUNT(*) AS DOUBLE PRECISION)", ...sums], folds),
     );
   }
   return queries;
@@ -592,7 +676,7 @@ export function featureBlocks(
   ranges: FoldRanges,
   outside: boolean,
 ): FeatureBlock[] {
-  const rows = ranges.counts.reduce((s, c) => s + c, 0);
+  const rows = rowCount(ranges);
   const learnedLevels = new Map<string, readonly string[]>();
   const mapped = (column: string, domain: readonly [number, number]): MappedColumn => {
     const lo = Math.min(...ranges.min.get(column)!), hi = Math.max(...ranges.max.get(column)!);

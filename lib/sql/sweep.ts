@@ -10,7 +10,10 @@
  * column of `indicators` terms (its distinct values); the moments query (split when
  * it would exceed `maxAggregates` sums); rarely, one more moments query for a fold whose
  * change of Legendre basis would amplify rounding, or whose learned domain of a Legendre factor
- * inside a product differs from all rows'.
+ * inside a product differs from all rows'. With `folds.repeats` R > 1 the ranges and moments
+ * queries group by the folds of several repeats at once (one fold column per repeat, so one scan
+ * serves them) and the client adds up each repeat's fold groups; they are repeated per batch of
+ * repeats only when k^b fold groups would exceed 1000 (`repeatBatches` in lib/sql/query.ts).
  *
  * @module
  */
@@ -21,15 +24,20 @@ import type { LearnedTerm } from "../design/types.ts";
 import type { Moments } from "../sweep/moments.ts";
 import {
   checkScaleSpec,
-  DEFAULT_HASH_FOLDS,
   finishSweep,
+  hashFoldsOf,
   scaleColumns,
   type ScaleProgressListener,
   type ScaleSweepResult,
   type ScaleSweepSpec,
 } from "../stream/finish.ts";
-import { foldHash } from "../stream/hash.ts";
-import { addLevelRows, emptyRanges, type FoldRanges, learnOnRanges } from "../stream/ranges.ts";
+import {
+  addLevelRows,
+  emptyRanges,
+  type FoldRanges,
+  learnOnRanges,
+  rowCount,
+} from "../stream/ranges.ts";
 import { firstLine } from "../stream/read.ts";
 import type { SqlConnection, SqlRows } from "./connection.ts";
 import {
@@ -40,6 +48,7 @@ import {
   levelsQuery,
   momentsQueries,
   rangesQuery,
+  repeatBatches,
   type SqlQuery,
   type SqlShape,
   sumItems,
@@ -132,8 +141,7 @@ export async function sweepSql(
       { option: "folds.key" },
     );
   }
-  const k = spec.folds?.k ?? DEFAULT_HASH_FOLDS.k;
-  const seed = spec.folds?.seed ?? DEFAULT_HASH_FOLDS.seed;
+  const { k, seed, repeats, hashes } = hashFoldsOf(spec.folds);
   const label = sourceLabel(spec);
   const drop = checkMissing(spec.missing);
   const used = [...new Set([spec.target, ...inputs, ...categories, key])];
@@ -146,7 +154,7 @@ export async function sweepSql(
       : [...spec.table],
     query: spec.query ?? null,
     key,
-    hash: foldHash(seed, k),
+    hash: hashes[0],
     partitionBy: [...(spec.partitionBy ?? [])],
     required: drop ? used : [],
   };
@@ -192,28 +200,49 @@ export async function sweepSql(
     ]),
   ].filter((c) => !categories.includes(c));
   const counted = drop ? [] : used;
-  const rangeRows = await run(rangesQuery(shape, inputs, shifted, counted));
-  const { ranges, shifts } = readRanges(rangeRows, shape, inputs, shifted, counted, k, label);
+  // Repeats grouped per scan: one fold column per repeat of the batch (R = 1: one batch, `hash`).
+  const batchShape = (batch: readonly number[]): SqlShape =>
+    batch.length === 1
+      ? { ...shape, hash: hashes[batch[0]] }
+      : { ...shape, hashes: batch.map((r) => hashes[r]) };
+  const rangeResults: { rows: SqlRows; repeats: readonly number[] }[] = [];
+  const batches = repeatBatches(repeats, k);
+  for (const batch of batches) {
+    const rows = await run(rangesQuery(batchShape(batch), inputs, shifted, counted));
+    rangeResults.push({ rows, repeats: batch });
+  }
+  const { ranges, shifts } = readRanges(rangeResults, shape, inputs, shifted, counted, k, label);
   for (const c of categories) {
     const levels = levelRows(await run(levelsQuery(shape, c)), shape.partitionBy.length);
     for (const [level, rows] of levels) addLevelRows(ranges, c, level, rows);
   }
-  const n = ranges.counts.reduce((s, c) => s + c, 0);
+  const n = rowCount(ranges);
   report({ stage: "domains", done: 1, total: 1, rows: n, rowsPerSecond: NaN });
 
   const terms = learnOnRanges(spec.terms, ranges, -1, label);
   const momentsStarted = performance.now();
+  /**
+   * Summaries of the moments queries of `queryShape`: per repeat it groups by (one, or those of
+   * `queryShape.hashes`), per bucket. `progress` places its queries among all the moments
+   * queries of this step.
+   */
   const summaries = async (
+    queryShape: SqlShape,
     termsOf: readonly LearnedTerm[],
     outside: boolean,
     bucket: number | null,
     buckets: number,
-  ): Promise<Moments[]> => {
+    progress: { readonly before: number; readonly total: number },
+  ): Promise<Moments[][]> => {
     const blocks = featureBlocks(termsOf, spec.target, shifts, ranges, outside);
     const items = sumItems(blocks);
-    const queries = momentsQueries(shape, blocks, items, maxAggregates, bucket);
-    const counts = new Float64Array(buckets);
-    const sums = Array.from({ length: buckets }, () => new Float64Array(items.length));
+    const queries = momentsQueries(queryShape, blocks, items, maxAggregates, bucket);
+    const grouped = bucket === null ? queryShape.hashes?.length ?? 1 : 1;
+    const counts = Array.from({ length: grouped }, () => new Float64Array(buckets));
+    const sums = Array.from(
+      { length: grouped },
+      () => Array.from({ length: buckets }, () => new Float64Array(items.length)),
+    );
     let start = 0;
     for (const [i, q] of queries.entries()) {
       const rows = (await run(q)).rows;
@@ -223,27 +252,25 @@ export async function sweepSql(
       const seconds = (performance.now() - momentsStarted) / 1000;
       report({
         stage: "summaries",
-        done: i + 1,
-        total: queries.length,
+        done: progress.before + i + 1,
+        total: progress.total,
         rows: n,
         rowsPerSecond: n / seconds,
       });
     }
-    return sums.map((s, b) => momentsFromSums(blocks, items, counts[b], s, label));
+    return sums.map((perBucket, j) =>
+      perBucket.map((s, b) => momentsFromSums(blocks, items, counts[j][b], s, label))
+    );
   };
-  const buckets = await summaries(terms, false, null, k);
+  const items = sumItems(featureBlocks(terms, spec.target, shifts, ranges, false)).length;
+  const perBatch = Math.max(1, Math.ceil(items / maxAggregates));
+  const buckets: Moments[][] = [];
+  for (const [b, batch] of batches.entries()) {
+    const progress = { before: b * perBatch, total: batches.length * perBatch };
+    buckets.push(...await summaries(batchShape(batch), terms, false, null, k, progress));
+  }
   const aggregated = (performance.now() - momentsStarted) / 1000;
-  buckets.forEach((m, f) => {
-    if (m.count !== ranges.counts[f]) {
-      throw new CurbfitError(
-        "READ_FAILED",
-        `fold ${f + 1} had ${ranges.counts[f]} rows in the ranges query and ${m.count} in the ` +
-          "moments query",
-        "Do not change the table while it is being swept; no result was produced",
-        { source: label },
-      );
-    }
-  });
+  checkCounts(buckets, ranges, label);
   const result = await finishSweep({
     spec,
     k,
@@ -253,7 +280,11 @@ export async function sweepSql(
     ranges,
     terms,
     buckets,
-    refetch: async (f, foldTerms) => (await summaries(foldTerms, true, f, 2)) as [Moments, Moments],
+    refetch: async (r, f, foldTerms) => {
+      const one = { ...shape, hash: hashes[r] };
+      const [side] = await summaries(one, foldTerms, true, f, 2, { before: 0, total: perBatch });
+      return side as [Moments, Moments];
+    },
     passes: 0,
     report,
   });
@@ -268,21 +299,48 @@ export async function sweepSql(
   }, scaleSweepBundle));
 }
 
-/** Adds one query's rows (grouped by fold and partition) into per-fold counts and sums. */
+/**
+ * Adds one query's rows (grouped by the folds of `sums.length` repeats, then partitions) into
+ * per-repeat, per-fold counts and sums: a row's values count once in each repeat, in its fold.
+ */
 function addSums(
   rows: readonly (readonly unknown[])[],
   partitions: number,
   start: number,
   width: number,
-  counts: Float64Array | null,
-  sums: Float64Array[],
+  counts: Float64Array[] | null,
+  sums: Float64Array[][],
   label: string,
 ): void {
+  const at = sums.length + partitions;
+  const values = new Float64Array(width);
   for (const row of rows) {
-    const f = foldOf(row[0], sums.length, label);
-    if (counts !== null) counts[f] += Number(row[1 + partitions]);
-    for (let i = 0; i < width; i++) sums[f][start + i] += Number(row[2 + partitions + i] ?? NaN);
+    for (let i = 0; i < width; i++) values[i] = Number(row[at + 1 + i] ?? NaN);
+    sums.forEach((perFold, j) => {
+      const f = foldOf(row[j], perFold.length, label);
+      if (counts !== null) counts[j][f] += Number(row[at]);
+      const target = perFold[f];
+      for (let i = 0; i < width; i++) target[start + i] += values[i];
+    });
   }
+}
+
+/** READ_FAILED when a fold's rows differ between the ranges and the moments queries. */
+function checkCounts(buckets: readonly Moments[][], ranges: FoldRanges, label: string): void {
+  buckets.forEach((perFold, r) =>
+    perFold.forEach((m, f) => {
+      const expected = ranges.counts[r * ranges.k + f];
+      if (m.count === expected) return;
+      const repeat = ranges.repeats > 1 ? ` of repeat ${r + 1}` : "";
+      throw new CurbfitError(
+        "READ_FAILED",
+        `fold ${f + 1}${repeat} had ${expected} rows in the ranges query and ${m.count} in the ` +
+          "moments query",
+        "Do not change the table while it is being swept; no result was produced",
+        { source: label },
+      );
+    })
+  );
 }
 
 function foldOf(value: unknown, k: number, label: string): number {
@@ -306,9 +364,13 @@ function foldOf(value: unknown, k: number, label: string): number {
   return f;
 }
 
-/** Reads the ranges query: per-fold counts and [min, max], shifts, NULL checks. */
+/**
+ * Reads the ranges queries (one per batch of repeats, each row grouped by the folds of its
+ * batch's repeats, then partitions): per-repeat, per-fold counts and [min, max]; shifts and NULL
+ * checks from the first query (every query sees every row once).
+ */
 function readRanges(
-  result: SqlRows,
+  results: readonly { readonly rows: SqlRows; readonly repeats: readonly number[] }[],
   shape: SqlShape,
   ranged: readonly string[],
   summed: readonly string[],
@@ -316,32 +378,38 @@ function readRanges(
   k: number,
   label: string,
 ): { ranges: FoldRanges; shifts: Map<string, number> } {
-  const ranges = emptyRanges(ranged, k);
+  const repeats = results.reduce((s, r) => s + r.repeats.length, 0);
+  const ranges = emptyRanges(ranged, k, [], repeats);
   const sums = new Float64Array(summed.length);
   const nonNull = new Float64Array(counted.length);
-  const at = 1 + shape.partitionBy.length;
   let nulls = 0;
-  for (const row of result.rows) {
-    const n = Number(row[at]);
-    if (row[0] === null || row[0] === undefined) {
-      nulls += n;
-      continue;
+  for (const [q, { rows, repeats: batch }] of results.entries()) {
+    const at = batch.length + shape.partitionBy.length;
+    for (const row of rows.rows) {
+      const n = Number(row[at]);
+      if (row[0] === null || row[0] === undefined) {
+        if (q === 0) nulls += n;
+        continue;
+      }
+      batch.forEach((r, j) => {
+        const f = r * k + foldOf(row[j], k, label);
+        (ranges.counts as Float64Array)[f] += n;
+        ranged.forEach((c, i) => {
+          const lo = row[at + 1 + 2 * i], hi = row[at + 2 + 2 * i];
+          if (lo === null) return;
+          ranges.min.get(c)![f] = Math.min(ranges.min.get(c)![f], Number(lo));
+          ranges.max.get(c)![f] = Math.max(ranges.max.get(c)![f], Number(hi));
+        });
+      });
+      if (q > 0) continue;
+      summed.forEach((_, j) => (sums[j] += Number(row[at + 1 + 2 * ranged.length + j] ?? 0)));
+      counted.forEach((
+        _,
+        j,
+      ) => (nonNull[j] += Number(row[at + 1 + 2 * ranged.length + summed.length + j])));
     }
-    const f = foldOf(row[0], k, label);
-    (ranges.counts as Float64Array)[f] += n;
-    ranged.forEach((c, j) => {
-      const lo = row[at + 1 + 2 * j], hi = row[at + 2 + 2 * j];
-      if (lo === null) return;
-      ranges.min.get(c)![f] = Math.min(ranges.min.get(c)![f], Number(lo));
-      ranges.max.get(c)![f] = Math.max(ranges.max.get(c)![f], Number(hi));
-    });
-    summed.forEach((_, j) => (sums[j] += Number(row[at + 1 + 2 * ranged.length + j] ?? 0)));
-    counted.forEach((
-      _,
-      j,
-    ) => (nonNull[j] += Number(row[at + 1 + 2 * ranged.length + summed.length + j])));
   }
-  const n = ranges.counts.reduce((s, c) => s + c, 0);
+  const n = rowCount(ranges);
   const missing = counted.findIndex((_, j) => nonNull[j] < n);
   if (nulls > 0 || missing !== -1) {
     throw new CurbfitError(

@@ -3,8 +3,10 @@
  * category columns with sorted levels, as lib/table makes them), its
  * design is built by the learned terms (the same code as the in-memory sweep, so design values
  * are identical), each bucket's chunk summary is computed two-pass (lib/sweep/moments.ts) and
- * merged into the running total with Chan, Golub & LeVeque's pairwise formula. Memory: the
- * totals, buckets · (p+1)(p+2) doubles, plus one chunk — independent of the row count.
+ * merged into the running total with Chan, Golub & LeVeque's pairwise formula. With repeated
+ * fold plans every row has a bucket in each repeat: the design is built once per chunk and
+ * summarized once per repeat. Memory: the totals, repeats · buckets · (p+1)(p+2) doubles, plus
+ * one chunk — independent of the row count.
  *
  * @module
  */
@@ -37,7 +39,7 @@ export interface ChunkCategory {
  * import type { Chunk } from "./accumulate.ts";
  * const chunk: Chunk = {
  *   size: 1, columns: new Map([["y", Float64Array.of(2)]]), categories: new Map(),
- *   bucket: Int32Array.of(0), lines: Int32Array.of(2),
+ *   buckets: [Int32Array.of(0)], lines: Int32Array.of(2),
  * };
  * ```
  */
@@ -48,14 +50,15 @@ export interface Chunk {
   readonly columns: ReadonlyMap<string, Float64Array>;
   /** Category columns by name. */
   readonly categories: ReadonlyMap<string, ChunkCategory>;
-  /** Bucket of each row (−1: skip). */
-  readonly bucket: Int32Array;
+  /** Per repeat: the bucket of each row (the first `size` entries are rows). */
+  readonly buckets: readonly Int32Array[];
   /** Source line of each row, for messages. */
   readonly lines: Int32Array;
 }
 
 /**
- * Running per-bucket summaries over the design of `terms` and the target.
+ * Running per-bucket summaries over the design of `terms` and the target, for each of `repeats`
+ * bucket assignments (`chunk.buckets[r]`; default one).
  *
  * @example
  * ```ts
@@ -68,7 +71,7 @@ export interface Chunk {
  *   size: 4,
  *   columns: new Map([["x", Float64Array.of(0, 1, 2, 3)], ["y", Float64Array.of(1, 2, 2, 4)]]),
  *   categories: new Map(),
- *   bucket: Int32Array.of(0, 1, 0, 1), lines: Int32Array.of(2, 3, 4, 5),
+ *   buckets: [Int32Array.of(0, 1, 0, 1)], lines: Int32Array.of(2, 3, 4, 5),
  * });
  * console.log(acc.totals().map((m) => m.count)); // [ 2, 2 ]
  * ```
@@ -77,17 +80,26 @@ export class FoldAccumulator {
   readonly #terms: readonly LearnedTerm[];
   readonly #target: string;
   readonly #source: string;
-  #totals: Moments[];
+  #totals: Moments[][];
 
-  constructor(terms: readonly LearnedTerm[], target: string, buckets: number, source: string) {
+  constructor(
+    terms: readonly LearnedTerm[],
+    target: string,
+    buckets: number,
+    source: string,
+    repeats = 1,
+  ) {
     this.#terms = terms;
     this.#target = target;
     this.#source = source;
     const d = terms.reduce((s, t) => s + t.names.length, 0) + 1;
-    this.#totals = Array.from({ length: buckets }, () => emptyMoments(d));
+    this.#totals = Array.from(
+      { length: repeats },
+      () => Array.from({ length: buckets }, () => emptyMoments(d)),
+    );
   }
 
-  /** Summarizes a chunk and merges it into the totals. */
+  /** Summarizes a chunk (in every repeat's buckets) and merges it into the totals. */
   add(chunk: Chunk): void {
     const n = chunk.size;
     if (n === 0) return;
@@ -108,25 +120,22 @@ export class FoldAccumulator {
     };
     const design = buildDesign(this.#terms, table);
     const y = chunk.columns.get(this.#target)!.subarray(0, n);
-    const parts = bucketMoments(
-      design.block.hi,
-      design.p,
-      y,
-      chunk.bucket.subarray(0, n),
-      this.#totals.length,
-    );
     const d = design.p + 1;
-    this.#totals = this.#totals.map((total, b) => mergeMoments([total, parts[b]], d));
+    this.#totals = this.#totals.map((totals, r) => {
+      const bucket = chunk.buckets[r].subarray(0, n);
+      const parts = bucketMoments(design.block.hi, design.p, y, bucket, totals.length);
+      return totals.map((total, b) => mergeMoments([total, parts[b]], d));
+    });
   }
 
-  /** The summaries so far, one per bucket. */
-  totals(): readonly Moments[] {
-    return this.#totals;
+  /** The summaries so far of repeat `repeat` (default 0), one per bucket. */
+  totals(repeat = 0): readonly Moments[] {
+    return this.#totals[repeat];
   }
 
-  /** Bytes held by the summaries (what grows with p and the bucket count, never with rows). */
+  /** Bytes held by the summaries (what grows with p, buckets and repeats, never with rows). */
   bytes(): number {
-    return this.#totals.reduce((s, m) => s + m.mean.byteLength + m.cross.byteLength, 0);
+    return this.#totals.flat().reduce((s, m) => s + m.mean.byteLength + m.cross.byteLength, 0);
   }
 }
 

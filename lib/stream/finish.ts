@@ -8,7 +8,9 @@
  * through one eigendecomposition per training fold and fits the chosen λ from the co-moments;
  * lasso / elastic net run a coordinate-descent path over the α grid per training fold
  * (`crossValidateSparse`), and the chosen model is the all-rows path's solution at the chosen α —
- * both exactly as the in-memory `sweep` does on the same fold summaries.
+ * both exactly as the in-memory `sweep` does on the same fold summaries. Repeated fold plans
+ * (`folds.repeats`) give every repeat its own fold summaries and fold bases; the curve holds the
+ * K·R fold errors, repeat-major, with SE = SD/√K as in memory.
  *
  * @module
  */
@@ -38,16 +40,18 @@ import type { LambdaGrid } from "../sweep/grid.ts";
 import { runStepsAsync } from "../common/steps.ts";
 import { type Choice, choose, type SelectionRule } from "../sweep/select.ts";
 import { type CurvePoint, type CurveResult, edgeNotes, type Progress } from "../sweep/sweep.ts";
-import { FOLD_HASH } from "./hash.ts";
+import { checkHashRepeats, FOLD_HASH, type FoldHash, foldHashes } from "./hash.ts";
 import { checkFoldsFilled, type FoldRanges, learnOnRanges } from "./ranges.ts";
 
 /**
- * How folds are made when the rows are not in memory: the fold hash of a key.
+ * How folds are made when the rows are not in memory: the fold hash of a key, once or repeated
+ * with independent hashes (`repeats`, as the in-memory `FoldRequest` names it).
  *
  * @example
  * ```ts
  * import type { HashFoldRequest } from "./finish.ts";
  * const folds: HashFoldRequest = { k: 10, seed: 7, key: "id" };
+ * const repeated: HashFoldRequest = { k: 10, seed: 7, repeats: 3, key: "id" };
  * ```
  */
 export interface HashFoldRequest {
@@ -55,6 +59,11 @@ export interface HashFoldRequest {
   readonly k?: number;
   /** Seed of the fold hash (default 1). */
   readonly seed?: number;
+  /**
+   * Repeats (default 1, at most 100): repeat r assigns folds by the hash of repeat r
+   * (lib/stream/README.md), independent of the other repeats.
+   */
+  readonly repeats?: number;
   /**
    * Whole-number column hashed into folds. Streams default to the 0-based data record number;
    * SQL sources need a key.
@@ -85,7 +94,7 @@ export interface ScaleSweepSpec extends Omit<FitSpec, "lambda" | "budget" | "alp
    * all-rows α_max down (default 100 values; lib/sparse/grid.ts).
    */
   readonly alphas?: AlphaGrid;
-  /** Fold count, hash seed and key column (default 10 folds, seed 1). */
+  /** Fold count, hash seed, repeats and key column (default 10 folds, seed 1, one repeat). */
   readonly folds?: HashFoldRequest;
   /** How to pick λ or α from the curve (default "min"). */
   readonly rule?: SelectionRule;
@@ -138,11 +147,13 @@ export interface HashFolds {
   readonly hash: string;
   /** Seed the hash coefficients were drawn with. */
   readonly seed: number;
-  /** Number of folds. */
+  /** Number of folds in each repeat. */
   readonly k: number;
+  /** Number of repeats; repeat r used the hash of repeat r. */
+  readonly repeats: number;
   /** The key column, or null for data record numbers. */
   readonly key: string | null;
-  /** Rows in each fold. */
+  /** Rows in each fold, repeat-major (repeat 0's K folds, then repeat 1's, …) as `foldMse`. */
   readonly sizes: readonly number[];
 }
 
@@ -198,10 +209,39 @@ export const CAUTIONS: readonly string[] = Object.freeze([
 export const DEFAULT_HASH_FOLDS = { k: 10, seed: 1 } as const;
 
 /**
+ * The hash folds a spec asks for, with defaults filled in: fold count, seed, repeats, key column
+ * (null: record numbers) and the fold hash of every repeat (`foldHashes`, which checks k, the
+ * seed and the repeats).
+ *
+ * @example
+ * ```ts
+ * import { hashFoldsOf } from "./finish.ts";
+ * const folds = hashFoldsOf({ k: 5, seed: 2, repeats: 3 });
+ * console.log(folds.k, folds.repeats, folds.hashes.length, folds.key); // 5 3 3 null
+ * ```
+ */
+export function hashFoldsOf(request: HashFoldRequest | undefined): {
+  readonly k: number;
+  readonly seed: number;
+  readonly repeats: number;
+  readonly key: string | null;
+  readonly hashes: readonly FoldHash[];
+} {
+  const k = request?.k ?? DEFAULT_HASH_FOLDS.k;
+  const seed = request?.seed ?? DEFAULT_HASH_FOLDS.seed;
+  const hashes = foldHashes(seed, k, request?.repeats ?? 1);
+  return { k, seed, repeats: hashes.length, key: request?.key ?? null, hashes };
+}
+
+/** The options of {@link HashFoldRequest}. */
+const HASH_FOLD_OPTIONS = ["k", "seed", "repeats", "key"];
+
+/**
  * Checks the parts of a spec that do not need the data: strength options that match the
  * penalty (lib/fit/penalty.ts `checkStrengthOptions`), target, terms (no column read both as
- * numbers and as categories), fold request. Returns the numeric input columns of the terms
- * (`scaleColumns` also lists the category ones).
+ * numbers and as categories), fold request (only the options of hash folds; `repeats` from 1
+ * to 100). Returns the numeric input columns of the terms (`scaleColumns` also lists the
+ * category ones).
  *
  * @example
  * ```ts
@@ -252,6 +292,17 @@ export function checkScaleSpec(spec: ScaleSweepSpec): string[] {
     );
   }
   const folds = spec.folds ?? {};
+  const other = Object.keys(folds).find((name) => !HASH_FOLD_OPTIONS.includes(name));
+  if (other !== undefined) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `folds.${other} is not an option of hash folds, which take ${HASH_FOLD_OPTIONS.join(", ")}`,
+      "Beyond memory, folds come from the hash of a key column (or the record number); for " +
+        "grouped, hold-out or explicit folds load the rows and use sweep()",
+      { option: `folds.${other}` },
+    );
+  }
+  if (folds.repeats !== undefined) checkHashRepeats(folds.repeats);
   if (folds.key !== undefined && (typeof folds.key !== "string" || folds.key === "")) {
     throw new CurbfitError(
       "BAD_OPTION",
@@ -280,14 +331,21 @@ export interface FinishInput {
   readonly seed: number;
   readonly key: string | null;
   readonly source: string;
-  /** Per-fold counts and column ranges over all rows used. */
+  /** Per-fold counts and column ranges over all rows used, for every repeat. */
   readonly ranges: FoldRanges;
   /** Terms learned on all rows, the basis of `buckets`. */
   readonly terms: readonly LearnedTerm[];
-  /** Summary of each fold (0 … k−1) in the basis of `terms`. */
-  readonly buckets: readonly Moments[];
-  /** Training and held-out summaries of fold f in the basis of `foldTerms`, from the rows. */
-  readonly refetch: (f: number, foldTerms: readonly LearnedTerm[]) => Promise<[Moments, Moments]>;
+  /** Per repeat r: the summary of each fold (0 … k−1) in the basis of `terms` (`buckets[r][f]`). */
+  readonly buckets: readonly (readonly Moments[])[];
+  /**
+   * Training and held-out summaries of fold f of repeat r in the basis of `foldTerms`, from the
+   * rows.
+   */
+  readonly refetch: (
+    r: number,
+    f: number,
+    foldTerms: readonly LearnedTerm[],
+  ) => Promise<[Moments, Moments]>;
   readonly passes: number;
   readonly report: ScaleProgressListener;
 }
@@ -305,24 +363,30 @@ export interface FinishInput {
  */
 export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult> {
   const { spec, k, ranges, terms, buckets } = input;
+  const repeats = buckets.length;
   checkFoldsFilled(ranges, input.source);
   const names = terms.flatMap((t) => t.names);
   const orders = terms.flatMap((t) => t.orders);
   const d = names.length + 1;
-  const all = mergeMoments(buckets, d);
+  // Every repeat's folds cover all rows; repeat 0's merge is the all-rows summary, as in memory.
+  const all = mergeMoments(buckets[0], d);
   let passes = input.passes;
+  // Repeat-major, as the engine visits them: fold f of repeat r at r·k + f.
   const folds: { train: Moments; validation: Moments; where: string }[] = [];
-  for (let f = 0; f < k; f++) {
-    const foldTerms = learnOnRanges(spec.terms, ranges, f, input.source);
-    const change = basisChange(terms, foldTerms);
-    const where = `training rows of fold ${f + 1}`;
-    if (change !== undefined) {
-      const train = changeMoments(removeMoments(all, buckets[f]), change);
-      folds.push({ train, validation: changeMoments(buckets[f], change), where });
-    } else {
-      const [train, validation] = await input.refetch(f, foldTerms);
-      passes++;
-      folds.push({ train, validation, where });
+  for (let r = 0; r < repeats; r++) {
+    for (let f = 0; f < k; f++) {
+      const foldTerms = learnOnRanges(spec.terms, ranges, f, input.source, r);
+      const change = basisChange(terms, foldTerms);
+      const where = `training rows of fold ${f + 1}` + (repeats > 1 ? ` (repeat ${r + 1})` : "");
+      const held = buckets[r][f];
+      if (change !== undefined) {
+        const train = changeMoments(removeMoments(all, held), change);
+        folds.push({ train, validation: changeMoments(held, change), where });
+      } else {
+        const [train, validation] = await input.refetch(r, f, foldTerms);
+        passes++;
+        folds.push({ train, validation, where });
+      }
     }
   }
   const penalty = spec.penalty ?? ridge();
@@ -333,10 +397,10 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
   };
   const source: FoldSummarySource = {
     all,
-    repeats: 1,
+    repeats,
     k,
-    buckets: () => [...buckets, emptyMoments(d)],
-    fold: (_r, f) => folds[f],
+    buckets: (r) => [...buckets[r], emptyMoments(d)],
+    fold: (r, f) => folds[r * k + f],
   };
   const n = all.count;
   // The engine's own "summaries" step (building fold summaries from rows in memory) has no
@@ -381,6 +445,7 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
       hash: FOLD_HASH,
       seed: input.seed,
       k,
+      repeats,
       key: input.key,
       sizes: Array.from(ranges.counts),
     },

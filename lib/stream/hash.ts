@@ -10,12 +10,15 @@
  *   h = ((a3·x + a2)·x + a1)·x + a0  mod P   (reduced after every product and sum)
  *   fold = h mod K.
  * The coefficients a0 … a3 are drawn from curbfit's one generator: `SeededStream(seed,
- * FOLD_HASH_STREAM)`, four `nextBelow(P)` draws in the order a0, a1, a2, a3.
+ * FOLD_HASH_STREAM)`, four `nextBelow(P)` draws in the order a0, a1, a2, a3. Repeated fold plans
+ * continue the same stream: repeat r (0-based) takes draws 4r … 4r + 3, so repeat 0 is the
+ * single-repeat hash and each repeat's folds are independent of the others' over the seed.
  *
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
-import { SeededStream } from "../folds/mod.ts";
+import { explicitPlan, type FoldPlan, SeededStream } from "../folds/mod.ts";
+import { makePlan } from "../folds/plan.ts";
 
 /**
  * Name and version of the fold hash; changing anything below needs a new name.
@@ -51,13 +54,25 @@ export const FOLD_HASH_PRIME = 2147483647;
 export const FOLD_HASH_STREAM = 0x666f6c64;
 
 /**
- * A seeded fold hash: its coefficients and fold count.
+ * Most repeats of a hash fold plan: each repeat holds its own K fold summaries (and, in SQL,
+ * multiplies the groups of the queries), so a mistyped count is refused rather than run.
+ *
+ * @example
+ * ```ts
+ * import { MAX_HASH_REPEATS } from "./hash.ts";
+ * console.log(MAX_HASH_REPEATS); // 100
+ * ```
+ */
+export const MAX_HASH_REPEATS = 100;
+
+/**
+ * A seeded fold hash of one repeat: its coefficients and fold count.
  *
  * @example
  * ```ts
  * import { type FoldHash, foldHash } from "./hash.ts";
  * const h: FoldHash = foldHash(1, 10);
- * console.log(h.coefficients.length); // 4
+ * console.log(h.coefficients.length, h.repeat); // 4 0
  * ```
  */
 export interface FoldHash {
@@ -65,21 +80,47 @@ export interface FoldHash {
   readonly seed: number;
   /** Number of folds, 2 … 1000; folds are numbered 0 … k − 1. */
   readonly k: number;
+  /** The repeat (0-based) these coefficients belong to: draws 4·repeat … 4·repeat + 3. */
+  readonly repeat: number;
   /** a0, a1, a2, a3, each in 0 … P − 1. */
   readonly coefficients: readonly [number, number, number, number];
 }
 
 /**
- * The fold hash for `seed` and `k` folds.
+ * The fold hash for `seed` and `k` folds, of repeat `repeat` (default 0, the single-repeat hash).
  *
  * @example
  * ```ts
  * import { foldHash, foldOfKey } from "./hash.ts";
  * const h = foldHash(7, 10);
  * console.log(foldOfKey(h, 0), foldOfKey(h, 12345)); // two folds in 0…9
+ * const third = foldHash(7, 10, 2); // repeat 2 of a repeated plan: other folds
  * ```
  */
-export function foldHash(seed: number, k: number): FoldHash {
+export function foldHash(seed: number, k: number, repeat = 0): FoldHash {
+  if (!Number.isInteger(repeat) || repeat < 0 || repeat >= MAX_HASH_REPEATS) {
+    throw new CurbfitError(
+      "BAD_OPTION",
+      `repeat is ${repeat}, but it must be a whole number from 0 to ${MAX_HASH_REPEATS - 1}`,
+      "Repeats are numbered from 0",
+      { option: "repeat" },
+    );
+  }
+  return foldHashes(seed, k, repeat + 1)[repeat];
+}
+
+/**
+ * The fold hashes of repeats 0 … repeats − 1 for `seed` and `k` folds: the coefficients of
+ * repeat r are draws 4r … 4r + 3 of `SeededStream(seed, FOLD_HASH_STREAM)`.
+ *
+ * @example
+ * ```ts
+ * import { foldHashes, foldOfKey } from "./hash.ts";
+ * const [first, second] = foldHashes(7, 10, 2);
+ * console.log(foldOfKey(first, 12345), foldOfKey(second, 12345)); // the key's fold in each repeat
+ * ```
+ */
+export function foldHashes(seed: number, k: number, repeats = 1): readonly FoldHash[] {
   if (!Number.isSafeInteger(seed) || seed < 0) {
     throw new CurbfitError(
       "BAD_OPTION",
@@ -96,12 +137,41 @@ export function foldHash(seed: number, k: number): FoldHash {
       { option: "folds.k" },
     );
   }
+  checkHashRepeats(repeats);
   const s = new SeededStream(seed, FOLD_HASH_STREAM);
-  const a0 = s.nextBelow(FOLD_HASH_PRIME);
-  const a1 = s.nextBelow(FOLD_HASH_PRIME);
-  const a2 = s.nextBelow(FOLD_HASH_PRIME);
-  const a3 = s.nextBelow(FOLD_HASH_PRIME);
-  return Object.freeze({ seed, k, coefficients: Object.freeze([a0, a1, a2, a3] as const) });
+  return Object.freeze(Array.from({ length: repeats }, (_, repeat) => {
+    const a0 = s.nextBelow(FOLD_HASH_PRIME);
+    const a1 = s.nextBelow(FOLD_HASH_PRIME);
+    const a2 = s.nextBelow(FOLD_HASH_PRIME);
+    const a3 = s.nextBelow(FOLD_HASH_PRIME);
+    const coefficients = Object.freeze([a0, a1, a2, a3] as const);
+    return Object.freeze({ seed, k, repeat, coefficients });
+  }));
+}
+
+/**
+ * Checks `folds.repeats` of a hash fold plan: a whole number from 1 to {@link MAX_HASH_REPEATS}.
+ *
+ * @example
+ * ```ts
+ * import { checkHashRepeats } from "./hash.ts";
+ * console.log(checkHashRepeats(3)); // 3
+ * ```
+ */
+export function checkHashRepeats(repeats: unknown): number {
+  if (
+    typeof repeats === "number" && Number.isInteger(repeats) && repeats >= 1 &&
+    repeats <= MAX_HASH_REPEATS
+  ) {
+    return repeats;
+  }
+  const shown = typeof repeats === "string" ? JSON.stringify(repeats) : String(repeats);
+  throw new CurbfitError(
+    "BAD_OPTION",
+    `folds.repeats is ${shown}, but it must be a whole number from 1 to ${MAX_HASH_REPEATS}`,
+    "Pass e.g. { k: 10, seed: 1, repeats: 3 }, or leave repeats out for one repeat",
+    { option: "folds.repeats" },
+  );
 }
 
 /** (a · b) mod P for 0 ≤ a, b < P, exactly in doubles: b is split into 16-bit halves. */
@@ -220,4 +290,29 @@ export function foldsOfKeys(
     }
     return foldOfReduced(hash, x);
   });
+}
+
+/**
+ * The in-memory fold plan equal to a scale sweep's hash folds of `keys` (row numbers 0 … n − 1
+ * when no key column is used): repeat r of the plan is `foldsOfKeys(foldHash(seed, k, r), keys)`.
+ * Scheme "explicit" (each repeat checked by `explicitPlan`: every fold holds a row), `repeats`
+ * repeats, seed and generator null (the hash, not a shuffle, made the folds).
+ *
+ * @example
+ * ```ts
+ * import { hashFoldPlan } from "./hash.ts";
+ * const keys = Array.from({ length: 100 }, (_, i) => i);
+ * const plan = hashFoldPlan(keys, { k: 5, seed: 1, repeats: 3 });
+ * console.log(plan.k, plan.repeats); // 5 3
+ * ```
+ */
+export function hashFoldPlan(
+  keys: ArrayLike<number | bigint | string>,
+  options: { readonly k: number; readonly seed: number; readonly repeats?: number },
+): FoldPlan {
+  const repeats = options.repeats ?? 1;
+  const assignment = foldHashes(options.seed, options.k, repeats).map((hash) =>
+    explicitPlan(keys.length, { assignment: foldsOfKeys(hash, keys), k: options.k }).assignment[0]
+  );
+  return makePlan({ scheme: "explicit", nRows: keys.length, k: options.k, repeats, assignment });
 }

@@ -1,7 +1,8 @@
 /**
  * Sweeps over rows that are not in memory: CSV or NDJSON files and streams read chunk by chunk
  * (`sweepStream`), with folds from a seeded hash of a row key (`curbfit.fold-hash/1`, stated in
- * README.md here). The SQL sweep (lib/sql) shares the hash and the finishing step.
+ * README.md here), once or repeated (`folds.repeats`; `hashFoldPlan` gives the in-memory sweep the
+ * same folds). The SQL sweep (lib/sql) shares the hash and the finishing step.
  *
  * @example
  * ```ts
@@ -11,7 +12,15 @@
  *
  * @module
  */
-export { FOLD_HASH, type FoldHash, foldHash, foldOfKey, foldsOfKeys } from "./hash.ts";
+export {
+  FOLD_HASH,
+  type FoldHash,
+  foldHash,
+  foldHashes,
+  foldOfKey,
+  foldsOfKeys,
+  hashFoldPlan,
+} from "./hash.ts";
 export {
   type HashFoldRequest,
   type HashFolds,

@@ -6,7 +6,8 @@
  * column's min and max and each category column's levels equal terms learned on the rows
  * themselves. Fold f's training ranges are the ranges over all other folds, so every fold's terms
  * come from k ranges per column, without the rows (levels are the same for every fold, as in the
- * in-memory sweep, where they come from the whole table).
+ * in-memory sweep, where they come from the whole table). With repeated fold plans the counts and
+ * ranges are kept per repeat and fold (repeat-major), the levels once.
  *
  * @module
  */
@@ -17,8 +18,8 @@ import type { Column, Table } from "../table/types.ts";
 import type { Chunk } from "./accumulate.ts";
 
 /**
- * Row counts and per-column [min, max] of each fold (index = fold), and the levels of category
- * columns over all folds.
+ * Row counts and per-column [min, max] of each fold of each repeat (index r·k + f for fold f of
+ * repeat r), and the levels of category columns over all rows.
  *
  * @example
  * ```ts
@@ -28,21 +29,24 @@ import type { Chunk } from "./accumulate.ts";
  * ```
  */
 export interface FoldRanges {
-  /** Number of folds. */
+  /** Number of folds in each repeat. */
   readonly k: number;
-  /** Rows in each fold. */
+  /** Number of repeats: fold assignments of the same rows. */
+  readonly repeats: number;
+  /** Rows in each fold, repeat-major (entry r·k + f: fold f of repeat r). */
   readonly counts: Float64Array;
-  /** Per numeric column name: minima by fold (+Infinity for an empty fold). */
+  /** Per numeric column name: minima by fold as `counts` (+Infinity for an empty fold). */
   readonly min: ReadonlyMap<string, Float64Array>;
-  /** Per numeric column name: maxima by fold (−Infinity for an empty fold). */
+  /** Per numeric column name: maxima by fold as `counts` (−Infinity for an empty fold). */
   readonly max: ReadonlyMap<string, Float64Array>;
   /** Per category column name: rows of each level seen, over all folds (in order first seen). */
   readonly levels: ReadonlyMap<string, ReadonlyMap<string, number>>;
 }
 
 /**
- * Empty ranges for numeric `columns` and category columns `categories` over k folds, to be
- * filled by {@link addToRanges}, {@link addChunkToRanges} and {@link addLevelRows}.
+ * Empty ranges for numeric `columns` and category columns `categories` over k folds of each of
+ * `repeats` repeats (default 1), to be filled by {@link addToRanges}, {@link addChunkToRanges}
+ * and {@link addLevelRows}.
  *
  * @example
  * ```ts
@@ -56,18 +60,21 @@ export function emptyRanges(
   columns: readonly string[],
   k: number,
   categories: readonly string[] = [],
+  repeats = 1,
 ): FoldRanges {
+  const size = k * repeats;
   return {
     k,
-    counts: new Float64Array(k),
-    min: new Map(columns.map((c) => [c, new Float64Array(k).fill(Infinity)])),
-    max: new Map(columns.map((c) => [c, new Float64Array(k).fill(-Infinity)])),
+    repeats,
+    counts: new Float64Array(size),
+    min: new Map(columns.map((c) => [c, new Float64Array(size).fill(Infinity)])),
+    max: new Map(columns.map((c) => [c, new Float64Array(size).fill(-Infinity)])),
     levels: new Map(categories.map((c) => [c, new Map<string, number>()])),
   };
 }
 
 /**
- * Counts one row of fold `f` with its column values.
+ * Counts one row of fold `f` of repeat `repeat` (default 0) with its column values.
  *
  * @example
  * ```ts
@@ -77,18 +84,25 @@ export function emptyRanges(
  * console.log(r.max.get("x")![0]); // -2
  * ```
  */
-export function addToRanges(r: FoldRanges, f: number, values: ReadonlyMap<string, number>): void {
-  (r.counts as Float64Array)[f]++;
+export function addToRanges(
+  r: FoldRanges,
+  f: number,
+  values: ReadonlyMap<string, number>,
+  repeat = 0,
+): void {
+  const at = repeat * r.k + f;
+  (r.counts as Float64Array)[at]++;
   for (const [name, v] of values) {
     const lo = r.min.get(name)!, hi = r.max.get(name)!;
-    if (v < lo[f]) lo[f] = v;
-    if (v > hi[f]) hi[f] = v;
+    if (v < lo[at]) lo[at] = v;
+    if (v > hi[at]) hi[at] = v;
   }
 }
 
 /**
- * Counts the rows of a chunk (read by lib/stream/read.ts) into their folds: the [min, max] of
- * every numeric column of `r` and the rows of every level of its category columns.
+ * Counts the rows of a chunk (read by lib/stream/read.ts) into their folds of every repeat of
+ * `r`: the [min, max] of every numeric column and (once) the rows of every level of its category
+ * columns.
  *
  * @example
  * ```ts
@@ -98,7 +112,7 @@ export function addToRanges(r: FoldRanges, f: number, values: ReadonlyMap<string
  *   size: 3,
  *   columns: new Map([["x", Float64Array.of(4, -1, 2)]]),
  *   categories: new Map([["site", { levels: ["b", "a"], codes: Int32Array.of(0, 1, 0) }]]),
- *   bucket: Int32Array.of(0, 1, 1),
+ *   buckets: [Int32Array.of(0, 1, 1)],
  *   lines: Int32Array.of(2, 3, 4),
  * });
  * console.log(r.counts, r.max.get("x"), r.levels.get("site")); // Float64Array [1, 2] Float64Array [4, 2] Map(2) { "b" => 2, "a" => 1 }
@@ -106,14 +120,17 @@ export function addToRanges(r: FoldRanges, f: number, values: ReadonlyMap<string
  */
 export function addChunkToRanges(r: FoldRanges, chunk: Chunk): void {
   const counts = r.counts as Float64Array;
-  for (let i = 0; i < chunk.size; i++) counts[chunk.bucket[i]]++;
-  for (const [name, lo] of r.min) {
-    const v = chunk.columns.get(name)!;
-    const hi = r.max.get(name)!;
-    for (let i = 0; i < chunk.size; i++) {
-      const f = chunk.bucket[i];
-      if (v[i] < lo[f]) lo[f] = v[i];
-      if (v[i] > hi[f]) hi[f] = v[i];
+  for (let repeat = 0; repeat < r.repeats; repeat++) {
+    const bucket = chunk.buckets[repeat], base = repeat * r.k;
+    for (let i = 0; i < chunk.size; i++) counts[base + bucket[i]]++;
+    for (const [name, lo] of r.min) {
+      const v = chunk.columns.get(name)!;
+      const hi = r.max.get(name)!;
+      for (let i = 0; i < chunk.size; i++) {
+        const f = base + bucket[i];
+        if (v[i] < lo[f]) lo[f] = v[i];
+        if (v[i] > hi[f]) hi[f] = v[i];
+      }
     }
   }
   for (const name of r.levels.keys()) {
@@ -161,14 +178,34 @@ export function sortedLevels(r: FoldRanges, column: string): string[] {
   return [...(r.levels.get(column)?.keys() ?? [])].sort();
 }
 
-/** [min, max] of a column over all folds except `skip` (−1: over all folds). */
-function rangeOver(r: FoldRanges, name: string, skip: number): [number, number] {
+/**
+ * Rows counted in `r`: the rows of every fold of one repeat (each repeat counts every row once).
+ *
+ * @example
+ * ```ts
+ * import { addToRanges, emptyRanges, rowCount } from "./ranges.ts";
+ * const r = emptyRanges([], 2, [], 3);
+ * addToRanges(r, 1, new Map(), 0);
+ * addToRanges(r, 0, new Map(), 1);
+ * addToRanges(r, 1, new Map(), 2);
+ * console.log(rowCount(r)); // 1
+ * ```
+ */
+export function rowCount(r: FoldRanges): number {
+  let n = 0;
+  for (let f = 0; f < r.k; f++) n += r.counts[f];
+  return n;
+}
+
+/** [min, max] of a column over the folds of `repeat` except `skip` (−1: over all folds). */
+function rangeOver(r: FoldRanges, name: string, skip: number, repeat: number): [number, number] {
   const lo = r.min.get(name)!, hi = r.max.get(name)!;
   let a = Infinity, b = -Infinity;
   for (let f = 0; f < r.k; f++) {
     if (f === skip) continue;
-    if (lo[f] < a) a = lo[f];
-    if (hi[f] > b) b = hi[f];
+    const at = repeat * r.k + f;
+    if (lo[at] < a) a = lo[at];
+    if (hi[at] > b) b = hi[at];
   }
   return [a, b];
 }
@@ -185,10 +222,11 @@ function rangeOver(r: FoldRanges, name: string, skip: number): [number, number] 
 export function checkFoldsFilled(r: FoldRanges, source: string): void {
   const empty = Array.from(r.counts).findIndex((c) => c === 0);
   if (empty === -1) return;
-  const total = r.counts.reduce((s, c) => s + c, 0);
+  const fold = (empty % r.k) + 1;
+  const repeat = r.repeats > 1 ? ` of repeat ${Math.floor(empty / r.k) + 1}` : "";
   throw new CurbfitError(
     "TOO_FEW_ROWS",
-    `fold ${empty + 1} of ${r.k} received no rows (${total} rows in all)`,
+    `fold ${fold} of ${r.k}${repeat} received no rows (${rowCount(r)} rows in all)`,
     "Use fewer folds, more rows, or a key column with more distinct values",
     { source, option: "folds.k" },
   );
@@ -229,9 +267,10 @@ export function witnessTable(
 }
 
 /**
- * Terms learned on the rows of all folds except `skip` (−1: all rows), from the ranges alone;
- * category levels are those of all rows whatever `skip` is (as in the in-memory sweep). Ranges
- * of no rows at all are refused first ({@link checkFoldsFilled}): nothing can be learned.
+ * Terms learned on the rows of all folds of repeat `repeat` (default 0) except `skip` (−1: all
+ * rows), from the ranges alone; category levels are those of all rows whatever `skip` is (as in
+ * the in-memory sweep). Ranges of no rows at all are refused first ({@link checkFoldsFilled}):
+ * nothing can be learned.
  *
  * @example
  * ```ts
@@ -248,10 +287,11 @@ export function learnOnRanges(
   r: FoldRanges,
   skip: number,
   source: string,
+  repeat = 0,
 ): readonly LearnedTerm[] {
   if (r.counts.every((c) => c === 0)) checkFoldsFilled(r, source);
   const ranges = new Map<string, [number, number]>();
-  for (const name of r.min.keys()) ranges.set(name, rangeOver(r, name, skip));
+  for (const name of r.min.keys()) ranges.set(name, rangeOver(r, name, skip, repeat));
   const levels = new Map([...r.levels.keys()].map((name) => [name, sortedLevels(r, name)]));
   return learnTerms(terms, witnessTable(ranges, source, levels));
 }

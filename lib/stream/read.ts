@@ -1,6 +1,6 @@
 /**
  * Reading a CSV or NDJSON source record by record into chunks of rows, each row with its fold
- * from the fold hash. Only the named columns are converted: numeric columns to float64, category
+ * in every repeat from the fold hash. Only the named columns are converted: numeric columns to float64, category
  * columns to level codes. Values follow the table loaders' rules (lib/table/README.md): missing
  * tokens `""`, `NA`, `NaN`, `null`; decimal literals only; finite; magnitude below 2^500;
  * category text kept verbatim (a JSON number becomes its JavaScript text, as in `tableFromRows`).
@@ -56,7 +56,7 @@ export type StreamFormat = "csv" | "ndjson";
  * import type { ReadPlan } from "./read.ts";
  * import { foldHash } from "./hash.ts";
  * const plan: ReadPlan = {
- *   format: "csv", columns: ["x", "y"], categories: ["site"], key: "id", hash: foldHash(1, 5),
+ *   format: "csv", columns: ["x", "y"], categories: ["site"], key: "id", hashes: [foldHash(1, 5)],
  *   missing: "drop", malformed: "error", chunkRows: 8192, label: "data.csv",
  * };
  * ```
@@ -69,7 +69,8 @@ export interface ReadPlan {
   readonly categories?: readonly string[];
   /** Key column hashed into folds, or null to hash the 0-based data record number. */
   readonly key: string | null;
-  readonly hash: FoldHash;
+  /** The fold hash of each repeat (a row gets one fold per repeat). */
+  readonly hashes: readonly FoldHash[];
   readonly missing: "error" | "drop";
   readonly malformed: "error" | "drop";
   readonly chunkRows: number;
@@ -179,7 +180,7 @@ class RowSink {
   readonly #onChunk: (chunk: Chunk) => void;
   readonly #columns: Map<string, Float64Array>;
   readonly #categories: Map<string, LevelCodes>;
-  readonly #bucket: Int32Array;
+  readonly #buckets: Int32Array[];
   readonly #lines: Int32Array;
   readonly #dropped: DroppedRecord[] = [];
   #size = 0;
@@ -195,7 +196,7 @@ class RowSink {
     this.#categories = new Map(
       (plan.categories ?? []).map((c) => [c, new LevelCodes(plan.chunkRows)]),
     );
-    this.#bucket = new Int32Array(plan.chunkRows);
+    this.#buckets = plan.hashes.map(() => new Int32Array(plan.chunkRows));
     this.#lines = new Int32Array(plan.chunkRows);
   }
 
@@ -211,7 +212,7 @@ class RowSink {
       const x = this.#plan.key === null
         ? reduceKey(index)
         : toKey(value(this.#plan.key), this.#plan.key);
-      this.#bucket[row] = foldOfReduced(this.#plan.hash, x);
+      this.#plan.hashes.forEach((hash, r) => (this.#buckets[r][row] = foldOfReduced(hash, x)));
       this.#lines[row] = line;
     } catch (e) {
       if (!(e instanceof BadRecord)) throw e;
@@ -246,7 +247,7 @@ class RowSink {
       size: this.#size,
       columns: this.#columns,
       categories: this.#categories,
-      bucket: this.#bucket,
+      buckets: this.#buckets,
       lines: this.#lines,
     });
     this.#size = 0;
@@ -420,7 +421,7 @@ async function open(source: StreamSource, label: string): Promise<Opened> {
  * import { readChunks } from "./read.ts";
  * import { foldHash } from "./hash.ts";
  * const plan = {
- *   format: "csv" as const, columns: ["x", "y"], key: null, hash: foldHash(1, 2),
+ *   format: "csv" as const, columns: ["x", "y"], key: null, hashes: [foldHash(1, 2)],
  *   missing: "error" as const, malformed: "error" as const, chunkRows: 2, label: "demo",
  * };
  * const stats = await readChunks(ReadableStream.from(["x,y\n1,2\n3,4\n5,7\n"]), plan, (c) => {}, () => {});

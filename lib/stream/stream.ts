@@ -1,9 +1,9 @@
 /**
  * `sweepStream`: the cross-validated sweep — λ for ridge, α for lasso / elastic net — over a CSV
  * or NDJSON file or stream that need not fit in memory. Rows are read in chunks; each row's fold
- * comes from the fold hash of a key column or of its record number (lib/stream/hash.ts);
- * per-fold summaries are merged chunk by chunk (lib/stream/accumulate.ts), so memory is O(K·p²)
- * plus one chunk, whatever the row count.
+ * (one per repeat) comes from the fold hash of a key column or of its record number
+ * (lib/stream/hash.ts); per-fold summaries are merged chunk by chunk (lib/stream/accumulate.ts),
+ * so memory is O(R·K·p²) plus one chunk, whatever the row count.
  *
  * Passes: one when every Legendre term has a given domain and no term reads categories;
  * otherwise a first pass finds the per-fold ranges (domains) and the category levels, and a
@@ -23,14 +23,13 @@ import type { Moments } from "../sweep/moments.ts";
 import { FoldAccumulator } from "./accumulate.ts";
 import {
   checkScaleSpec,
-  DEFAULT_HASH_FOLDS,
   finishSweep,
+  hashFoldsOf,
   scaleColumns,
   type ScaleProgressListener,
   type ScaleSweepResult,
   type ScaleSweepSpec,
 } from "./finish.ts";
-import { foldHash } from "./hash.ts";
 import { checkFieldSeparator } from "../table/options.ts";
 import {
   addChunkToRanges,
@@ -121,9 +120,7 @@ export async function sweepStream(
 ): Promise<StreamSweepResult> {
   const inputs = checkScaleSpec(spec);
   const { categories } = scaleColumns(spec.terms);
-  const k = spec.folds?.k ?? DEFAULT_HASH_FOLDS.k;
-  const seed = spec.folds?.seed ?? DEFAULT_HASH_FOLDS.seed;
-  const key = spec.folds?.key ?? null;
+  const { k, seed, repeats, key, hashes } = hashFoldsOf(spec.folds);
   const label = spec.label ?? sourceLabel(source);
   const chunkRows = checkChunkRows(spec.chunkRows);
   const plan: ReadPlan = {
@@ -131,7 +128,7 @@ export async function sweepStream(
     columns: [...new Set([spec.target, ...inputs])],
     categories,
     key,
-    hash: foldHash(seed, k),
+    hashes,
     missing: policy(spec.missing, "missing"),
     malformed: policy(spec.malformed, "malformed"),
     chunkRows,
@@ -172,7 +169,7 @@ export async function sweepStream(
     return stats;
   };
 
-  let ranges = emptyRanges(inputs, k, categories);
+  let ranges = emptyRanges(inputs, k, categories, repeats);
   let firstStats: ReadStats | undefined;
   if (twoPass) {
     firstStats = await read("domains", (chunk) => addChunkToRanges(ranges, chunk));
@@ -180,8 +177,8 @@ export async function sweepStream(
   const terms = twoPass
     ? learnOnRanges(spec.terms, ranges, -1, label)
     : learnOnRanges(spec.terms, unitRanges(inputs, k), -1, label);
-  const accumulator = new FoldAccumulator(terms, spec.target, k, label);
-  const collected = emptyRanges(inputs, k);
+  const accumulator = new FoldAccumulator(terms, spec.target, k, label, repeats);
+  const collected = emptyRanges(inputs, k, [], repeats);
   const stats = await read("summaries", (chunk) => {
     if (!twoPass) addChunkToRanges(collected, chunk);
     accumulator.add(chunk);
@@ -195,11 +192,11 @@ export async function sweepStream(
     );
   }
   if (!twoPass) ranges = collected;
-  const refetch = async (f: number, foldTerms: readonly LearnedTerm[]) => {
+  const refetch = async (r: number, f: number, foldTerms: readonly LearnedTerm[]) => {
     const side = new FoldAccumulator(foldTerms, spec.target, 2, label);
     await read("summaries", (chunk) => {
-      const bucket = chunk.bucket.map((b) => (b === f ? 1 : 0));
-      side.add({ ...chunk, bucket });
+      const bucket = chunk.buckets[r].map((b) => (b === f ? 1 : 0));
+      side.add({ ...chunk, buckets: [bucket] });
     });
     return side.totals() as [Moments, Moments];
   };
@@ -212,7 +209,7 @@ export async function sweepStream(
     ranges,
     // Terms for the fit and the fold bases: learned on the ranges of all rows.
     terms: twoPass ? terms : learnOnRanges(spec.terms, ranges, -1, label),
-    buckets: accumulator.totals(),
+    buckets: Array.from({ length: repeats }, (_, r) => accumulator.totals(r)),
     refetch,
     passes: 0,
     report,

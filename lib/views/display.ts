@@ -228,7 +228,8 @@ export function sweepBundle(s: SweepResult): Promise<ShownBundle> {
  * ```
  */
 export function scaleSweepBundle(r: ScaleSweepResult): Promise<ShownBundle> {
-  const folds = { scheme: "key-hash", k: r.folds.k, repeats: 1, seed: r.folds.seed } as const;
+  const { k, repeats, seed } = r.folds;
+  const folds = { scheme: "key-hash", k, repeats, seed } as const;
   const words = { ...r, folds };
   const key = r.folds.key === null ? "the data record number" : `column ${r.folds.key}`;
   const t = sweepTexts(words, "fitted from the all-rows summary", [

@@ -215,7 +215,7 @@ export function foldWords(plan: PlanWords): string {
     case "explicit":
       return `${plan.k} given folds${repeats}`;
     case "key-hash":
-      return `${plan.k}-fold CV by key hash${seed}`;
+      return `${plan.k}-fold CV by key hash${repeats}${seed}`;
   }
 }
 
