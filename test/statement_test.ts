@@ -18,6 +18,7 @@ import {
   indicators,
   lasso,
   legendre,
+  parseCsv,
   ridge,
   sweep,
   type SweepResult,
@@ -105,6 +106,16 @@ Deno.test("statement: rendered from the record alone, deterministically", async 
     () => statement(json.replace('"kind": "comparison"', '"kind": "survey"')),
     (e: unknown) => e instanceof CurbfitError && e.code === "BAD_RECORD",
   );
+});
+
+Deno.test("statement: a file read with another field separator says so; a comma file does not", () => {
+  const lines = ["x;y", ...Array.from({ length: 24 }, (_, i) => `${i};${(i * i) % 7}`)];
+  const semicolon = parseCsv(lines.join("\n"), { fieldSeparator: ";" });
+  const spec = { target: "y", terms: [column("x")], folds: { k: 4, seed: 2 } };
+  const withSemicolon = statement(recordOf(sweep(semicolon, spec))).markdown();
+  assert.match(withSemicolon, /fields separated by `;`/);
+  const comma = parseCsv(lines.join("\n").replaceAll(";", ","));
+  assert.doesNotMatch(statement(recordOf(sweep(comma, spec))).markdown(), /fields separated/);
 });
 
 Deno.test("statement: numbers are the record's", () => {

@@ -116,6 +116,8 @@ export function describeFolds(f: FoldsSection): string {
  * import { describePenalty } from "./sections.ts";
  * console.log(describePenalty({ weights: "rising", exponent: 2 }, true, true));
  * // ridge, γ_q = order^2 (higher orders cost more); standardized
+ * console.log(describePenalty({ kind: "lasso", mix: 1, weights: [0, 1, 1], tolerance: 1e-7 }, true, true));
+ * // lasso, γ given per column (0: unpenalized), α in the 1/(2N) convention; standardized
  * ```
  */
 export function describePenalty(
@@ -127,16 +129,25 @@ export function describePenalty(
   const tail = `${scale}${intercept ? "" : "; no intercept"}`;
   if ("mix" in p) {
     const family = p.kind === "lasso" ? "lasso" : `elastic net, L1 share ρ = ${p.mix}`;
-    return `${family}, α in the 1/(2N) convention; ${tail}`;
+    const gamma = p.weights === undefined
+      ? ""
+      : `, ${gammaWords(p.weights, p.exponent ?? 1)}${
+        typeof p.weights === "string" ? "" : " (0: unpenalized)"
+      }`;
+    return `${family}${gamma}, α in the 1/(2N) convention; ${tail}`;
   }
-  const gamma = typeof p.weights !== "string"
+  return `ridge, ${gammaWords(p.weights, p.exponent)}; ${tail}`;
+}
+
+/** How γ was chosen, in words. */
+function gammaWords(weights: PenaltySection["weights"], exponent: number): string {
+  return typeof weights !== "string"
     ? "γ given per column"
-    : p.weights === "equal"
+    : weights === "equal"
     ? "γ = 1 (weight decay)"
-    : p.weights === "rising"
-    ? `γ_q = order^${p.exponent} (higher orders cost more)`
-    : `γ_q = order^−${p.exponent} (lower orders cost more)`;
-  return `ridge, ${gamma}; ${tail}`;
+    : weights === "rising"
+    ? `γ_q = order^${exponent} (higher orders cost more)`
+    : `γ_q = order^−${exponent} (lower orders cost more)`;
 }
 
 function describeGrid(m: ModelSection): string {
@@ -280,7 +291,14 @@ export function dataBlocks(record: ModelChoiceRecord): Block[] {
     { kind: "heading", level: 2, text: "Data" },
     {
       kind: "paragraph",
-      parts: [`${count(d.rows, "row")} from `, { code: d.source }, `. ${missing}`],
+      parts: [
+        `${count(d.rows, "row")} from `,
+        { code: d.source },
+        ...(d.fieldSeparator === undefined
+          ? []
+          : [", fields separated by ", { code: separatorName(d.fieldSeparator) }]),
+        `. ${missing}`,
+      ],
     },
     { kind: "table", table },
     {
@@ -288,6 +306,11 @@ export function dataBlocks(record: ModelChoiceRecord): Block[] {
       parts: [`Fingerprint of the rows used (${d.encoding}, SHA-256): `, { code: d.sha256 }],
     },
   ];
+}
+
+/** A separator as a reader would type it: the tab and the space by name, others as they are. */
+function separatorName(separator: string): string {
+  return separator === "\t" ? "tab" : separator === " " ? "space" : separator;
 }
 
 /**
