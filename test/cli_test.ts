@@ -12,7 +12,10 @@ import { join } from "node:path";
 import {
   column,
   compare,
+  CurbfitError,
+  elasticNet,
   indicators,
+  lasso,
   legendre,
   power,
   product,
@@ -563,6 +566,37 @@ Deno.test("cli syntax: terms and penalties round-trip through their text form", 
   ) {
     assert.deepEqual(parsePenalty(formatPenalty(p), "--penalty"), p);
   }
+  // the sparse penalties take ridge's weights after their kind (and an elastic net's MIX)
+  const sparse: [string, unknown][] = [
+    ["lasso", lasso()],
+    ["lasso:rising:2", lasso({ weights: "rising", exponent: 2 })],
+    ["lasso:0,1,2.5", lasso({ weights: [0, 1, 2.5] })],
+    ["elastic-net:0.3", elasticNet({ mix: 0.3 })],
+    ["elastic-net:0.3:falling:1.5", elasticNet({ mix: 0.3, weights: "falling", exponent: 1.5 })],
+    ["elastic-net:0.5:0,1,1", elasticNet({ mix: 0.5, weights: [0, 1, 1] })],
+  ];
+  for (const [text, p] of sparse) {
+    assert.deepEqual(parsePenalty(text, "--penalty"), p, text);
+    assert.equal(formatPenalty(p as ReturnType<typeof lasso>), text);
+  }
+  assert.deepEqual(parsePenalty("lasso:equal", "--penalty"), lasso());
+  const refused: [string, RegExp][] = [
+    ["lasso:0,0", /every weight of the lasso penalty is 0/],
+    ["lasso:1,-1", /weight 2 is -1/],
+    ["ridge:0,1", /weight 1 is 0/],
+    ["lasso:rising:2:3", /not a penalty this version knows/],
+    ["elastic-net:0.5:wavy", /after elastic-net:0\.5: comes equal, rising, falling or a list/],
+    ["lasso:equal:2", /has an exponent, which only rising and falling weights take/],
+  ];
+  for (const [text, words] of refused) {
+    assert.throws(() => parsePenalty(text, "--penalty"), (e: unknown) => {
+      assert.ok(e instanceof CurbfitError, String(e));
+      assert.equal(e.code, "BAD_OPTION");
+      assert.match(e.message, words);
+      assert.match(e.message, /--penalty/);
+      return true;
+    }, text);
+  }
   const c = parseCandidate('name="a; ""b"""; terms=column:x; lambdas=0', "--candidate 1");
   assert.equal(c.get("name"), 'a; "b"');
 });
@@ -718,6 +752,66 @@ Deno.test("cli: sweep --penalty lasso --alpha-count writes an α record that ver
   const ok = await runTask("curbfit", ["verify", recordPath, "--data", ORCHARD]);
   assert.equal(ok.code, 0, ok.stdout + ok.stderr);
   await Deno.remove(out, { recursive: true });
+});
+
+Deno.test("cli: sweep --penalty lasso:rising:2 records the weights; verify accepts; the reproduce command remakes it", async () => {
+  const out = await Deno.makeTempDir();
+  const again = await Deno.makeTempDir();
+  const ran = await runTask("curbfit", [
+    ...SWEEP,
+    "--term",
+    "column:shade_share",
+    "--penalty",
+    "lasso:rising:2",
+    "--alpha-count",
+    "12",
+    "--folds",
+    "5",
+    "--seed",
+    "3",
+    "--out",
+    out,
+    "--quiet",
+  ]);
+  assert.equal(ran.code, 0, ran.stderr);
+  const json = await Deno.readTextFile(join(out, "record.json"));
+  const record = parseRecord(json);
+  const m = record.models[0];
+  assert.ok(isSparseModel(m));
+  // legendre P1…P4 have orders 1…4 and the plain column order 1: γ_q = order_q²
+  assert.deepEqual(m.penalty, {
+    kind: "lasso",
+    mix: 1,
+    weights: "rising",
+    exponent: 2,
+    gamma: [1, 4, 9, 16, 1],
+    tolerance: 1e-7,
+  });
+  const statementText = await Deno.readTextFile(join(out, "statement.md"));
+  assert.match(
+    statementText,
+    /--penalty lasso:rising:2/,
+    "the reproduce command keeps the weights",
+  );
+  assert.match(statementText, /lasso, γ\\_q = order\^2/); // Markdown escapes the underscore
+  const ok = await runTask("curbfit", ["verify", join(out, "record.json"), "--data", ORCHARD]);
+  assert.equal(ok.code, 0, ok.stdout + ok.stderr);
+  const line = rerunCommand(record, ORCHARD);
+  assert.ok(line !== null);
+  const remade = await runTask("curbfit", [...argvOf(line), "--out", again, "--quiet"]);
+  assert.equal(remade.code, 0, remade.stderr);
+  assert.equal(await Deno.readTextFile(join(again, "record.json")), json);
+  // weights that do not fit the design: one line naming --penalty
+  const bad = await runTask("curbfit", [
+    ...FIT_SHADE,
+    "--penalty",
+    "elastic-net:0.5:0,1",
+    "--alpha",
+    "0.05",
+  ]);
+  assertOneLineError(bad, ["--penalty", "2 weights were given for 5 design columns"]);
+  await Deno.remove(out, { recursive: true });
+  await Deno.remove(again, { recursive: true });
 });
 
 Deno.test("cli: compare mixes ridge and elastic-net candidates; the reproduce command remakes the record", async () => {

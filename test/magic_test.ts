@@ -15,6 +15,7 @@ import {
   equivalentCall,
   indicators,
   kFoldPlan,
+  lasso,
   legendre,
   MagicError,
   power,
@@ -731,16 +732,39 @@ Deno.test("sparse penalties: penalty lasso / elastic-net mix ρ and alpha lines 
   assert.match(lassoPlan.call.code, /alphas: \[0\.001, 0\.01, 0\.1\]/);
 });
 
-Deno.test("sparse penalties: γ or λ with lasso, α with ridge, a bad mix — errors at their line", () => {
+Deno.test("sparse penalties: λ with lasso, α with ridge, bad weights, a bad mix — errors at their line", () => {
   const cases: [string, RegExp, () => unknown][] = [
-    ["lasso with gamma", /line 6.*γ weights and a lasso penalty/s, () =>
+    ["lasso with lambda", /line 6.*a λ grid and a lasso penalty/s, () =>
       curbPlan`
     data ${data}
     predict y
     terms column z1
     penalty lasso
-    gamma rising 2
+    lambda 0.1, 1
   `],
+    [
+      "lasso with all-zero weights",
+      /line 5, column 11.*every weight of the lasso penalty is 0.*\^\^\^\^/s,
+      () =>
+        curbPlan`
+    data ${data}
+    predict y
+    terms column z1, column z2
+    gamma 0, 0
+    penalty lasso
+  `,
+    ],
+    [
+      "ridge with a zero weight",
+      /line 5, column 11.*weight 1 is 0, but every weight must be a finite number > 0/s,
+      () =>
+        curbPlan`
+    data ${data}
+    predict y
+    terms column z1, column z2
+    gamma 0, 1
+  `,
+    ],
     ["alpha with lambda", /line 6.*α grid and a λ grid/s, () =>
       curbPlan`
     data ${data}
@@ -899,4 +923,65 @@ Deno.test("data line: a CSV path names its separator; it runs, prints readCsv wi
   } finally {
     await Deno.remove(dir, { recursive: true });
   }
+});
+
+Deno.test("gamma serves lasso and elastic net too: the API's weighted sweep, and the printed call round-trips", async () => {
+  const result = await curb`
+    data ${data}
+    predict y
+    terms legendre x degree 6, column z1, column z2
+    penalty elastic-net mix 0.3
+    gamma rising 2
+    alpha 20 points ratio 1e-3
+    folds 5 seed 11
+  ` as SweepResult;
+  const direct = sweep(data, {
+    target: "y",
+    terms: [legendre("x", 6), column("z1"), column("z2")],
+    penalty: elasticNet({ mix: 0.3, weights: "rising", exponent: 2 }),
+    alphas: { count: 20, ratio: 1e-3 },
+    folds: { k: 5, seed: 11 },
+  });
+  assert.deepEqual(numbers(result), numbers(direct));
+  assert.deepEqual(result.gamma, [1, 4, 9, 16, 25, 36, 1, 1]);
+  const call = equivalentCall(result);
+  assert.match(call.code, /elasticNet\(\{ mix: 0\.3, weights: "rising", exponent: 2 \}\)/);
+  const again = await evaluate(call, { data }) as SweepResult;
+  assert.deepEqual(numbers(again), numbers(result));
+  const listed = curbPlan`
+    data ${data}
+    predict y
+    terms column z1, column z2
+    γ 0, 1
+    penalty lasso
+    α 0.001, 0.01
+  `;
+  assert.match(listed.call.code, /penalty: lasso\(\{ weights: \[0, 1\] \}\)/);
+  const ran = await listed.run({ progress: null }) as SweepResult;
+  assert.ok(ran.curve.every((c) => c.path[0] !== 0), "the 0-weight column is in at every α");
+  const back = await evaluate(listed.call, { data }) as SweepResult;
+  assert.deepEqual(numbers(back), numbers(ran));
+});
+
+Deno.test("a candidate's penalty line keeps the shared gamma line, and its gamma line the shared penalty", () => {
+  const plan = curbPlan`
+    data ${data}
+    predict y
+    terms legendre x degree 4
+    penalty lasso
+    gamma rising 2
+    alpha 10 points
+    candidate shared both
+    candidate own penalty
+      penalty elastic-net mix 0.5
+    candidate own gamma
+      gamma 0, 1, 1, 1
+  `;
+  assert.equal(plan.job.kind, "compare");
+  if (plan.job.kind !== "compare") return;
+  const [both, ownPenalty, ownGamma] = plan.job.candidates;
+  assert.deepEqual(both.penalty, lasso({ weights: "rising", exponent: 2 }));
+  assert.deepEqual(ownPenalty.penalty, elasticNet({ mix: 0.5, weights: "rising", exponent: 2 }));
+  assert.deepEqual(ownGamma.penalty, lasso({ weights: [0, 1, 1, 1] }));
+  assert.match(plan.call.code, /lasso\(\{ weights: \[0, 1, 1, 1\] \}\)/);
 });

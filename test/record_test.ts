@@ -734,3 +734,125 @@ Deno.test("verify: readRecordedData reads the recorded separator; another one is
     await Deno.remove(dir, { recursive: true });
   }
 });
+
+// ---- sparse models with per-column weights (additive keys of schema /1) -------------------------
+
+function weightedRun(): SweepResult {
+  return sweep(COLS, {
+    target: "y",
+    terms: [legendre("x", 7), column("z1")],
+    penalty: elasticNet({ mix: 0.6, weights: "rising", exponent: 1.5 }),
+    alphas: { count: 12 },
+    folds: { k: 5, seed: 17 },
+    rule: "one-se",
+  });
+}
+
+const WEIGHTED_TEXT = recordJson(weightedRun());
+
+Deno.test("weighted sparse record: weights, exponent and γ between mix and tolerance; γ in the objective", () => {
+  assert.equal(recordJson(weightedRun()), WEIGHTED_TEXT, "byte-identical across runs");
+  const m = editable(WEIGHTED_TEXT).models[0];
+  assert.deepEqual(Object.keys(m.penalty), [
+    "kind",
+    "mix",
+    "weights",
+    "exponent",
+    "gamma",
+    "tolerance",
+  ]);
+  const orders = [1, 2, 3, 4, 5, 6, 7, 1];
+  assert.deepEqual(m.penalty.gamma, orders.map((k) => k ** 1.5));
+  assert.equal(m.penalty.weights, "rising");
+  assert.match(m.objective[0], /α Σ_q γ_q \[ρ \|s_q w_q\| \+ \(\(1 − ρ\)\/2\) \(s_q w_q\)²\]/);
+  assert.ok(m.objective.some((l: string) => /^γ_q = order_q\^1\.5 \(penalty\.gamma\)/.test(l)));
+  assert.match(m.cv.definitions[3], /Σ_q γ_q/);
+  // penaltyValue is Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] of each path row
+  m.cv.path.forEach((w: number[], l: number) => {
+    const byHand = w.reduce(
+      (t, v, q) => t + m.penalty.gamma[q] * (0.6 * Math.abs(v) + 0.2 * v * v),
+      0,
+    );
+    assert.ok(Math.abs(m.cv.penaltyValue[l] - byHand) <= 1e-12 * Math.max(1, byHand));
+  });
+  assert.equal(recordJson(parseRecord(WEIGHTED_TEXT)), WEIGHTED_TEXT, "parse then write");
+  // unweighted sparse records keep their old shape: no weight keys at all
+  assert.deepEqual(Object.keys(editable(SPARSE_TEXT).models[0].penalty), [
+    "kind",
+    "mix",
+    "tolerance",
+  ]);
+});
+
+Deno.test("weighted sparse record: verify replays it; an edited weight or γ fails; loadRecord predicts", () => {
+  const report = verify(WEIGHTED_TEXT, COLS);
+  assert.equal(report.ok, true, report.text());
+  assert.deepEqual(bitIdentical(report), []);
+  assert.ok(report.entries.some((e) => e.field === "models[0].penalty.gamma" && e.ok));
+  // an edited γ: the rerun resolves γ from weights and orders again, so penalty.gamma differs
+  const gamma = editable(WEIGHTED_TEXT);
+  gamma.models[0].penalty.gamma[2] *= 1.01;
+  assert.deepEqual(failed(verify(JSON.stringify(gamma), COLS)), ["models[0].penalty.gamma"]);
+  // an edited exponent: the rerun uses it, so γ and the numbers that depend on it differ
+  const exponent = editable(WEIGHTED_TEXT);
+  exponent.models[0].penalty.exponent = 1;
+  const fields = failed(verify(JSON.stringify(exponent), COLS));
+  assert.ok(fields.includes("models[0].penalty.gamma"), fields.join(", "));
+  assert.ok(fields.includes("models[0].cv.cvMean"), fields.join(", "));
+  // loading: the same penalty, γ and predictions
+  const s = weightedRun();
+  const loaded = loadRecord(WEIGHTED_TEXT);
+  const rows = { x: [0.05, 0.5, 0.93], z1: [0.2, -1, 1.4] };
+  assert.deepEqual(loaded.predict(rows).values, s.fit.predict(rows).values);
+  assert.deepEqual(loaded.fit.summary.penalty, s.fit.summary.penalty);
+  assert.deepEqual(loaded.fit.summary.gamma, s.gamma);
+  assert.equal(loaded.fit.summary.objective, s.fit.summary.objective);
+  // a 0 weight (an unpenalized column) round-trips and verifies too
+  const listed = sweep(COLS, {
+    target: "y",
+    terms: [legendre("x", 4), column("z1")],
+    penalty: lasso({ weights: [0, 1, 2, 2, 1] }),
+    alphas: [0.003, 0.03, 0.3],
+    folds: { k: 4, seed: 3 },
+  });
+  const text = recordJson(listed);
+  assert.deepEqual(editable(text).models[0].penalty.weights, [0, 1, 2, 2, 1]);
+  assert.equal(verify(text, COLS).ok, true);
+  const edited = editable(text);
+  edited.models[0].penalty.weights[0] = 1;
+  edited.models[0].penalty.gamma[0] = 1;
+  const changed = failed(verify(JSON.stringify(edited), COLS));
+  assert.ok(changed.includes("models[0].cv.cvMean"), changed.join(", "));
+});
+
+Deno.test("weighted sparse record: incomplete or equal weight keys are BAD_RECORD naming the field", () => {
+  // deno-lint-ignore no-explicit-any
+  const cases: [string, (m: Record<string, any>) => void][] = [
+    ["record.models[0].penalty.gamma", (m) => delete m.penalty.gamma],
+    ["record.models[0].penalty.weights", (m) => (m.penalty.weights = "equal")],
+    ["record.models[0].penalty.exponent", (m) => (m.penalty.exponent = "two")],
+    ["record.models[0].penalty.gamma", (m) => m.penalty.gamma.pop()],
+  ];
+  for (const [option, edit] of cases) {
+    const doc = editable(WEIGHTED_TEXT);
+    edit(doc.models[0]);
+    assert.throws(
+      () => parseRecord(JSON.stringify(doc)),
+      (e: unknown) => {
+        assert.ok(e instanceof CurbfitError, String(e));
+        assert.equal(e.code, "BAD_RECORD");
+        assert.equal(e.place.option, option);
+        return true;
+      },
+    );
+  }
+  // γ without weights in an unweighted record: not a field of the schema
+  const stray = editable(SPARSE_TEXT);
+  stray.models[0].penalty = { kind: "lasso", mix: 1, gamma: [1], tolerance: 1e-7 };
+  assert.throws(
+    () => parseRecord(JSON.stringify(stray)),
+    (e: unknown) =>
+      e instanceof CurbfitError && e.code === "BAD_RECORD" &&
+      e.place.option === "record.models[0].penalty.gamma",
+  );
+});

@@ -33,6 +33,7 @@ import {
 } from "./sweep_imports.ts";
 import { buildDesign, learnTerms } from "../lib/design/mod.ts";
 import { sparsePathFromRows, type SparsePenalty } from "../lib/sparse/mod.ts";
+import { penaltyWeights } from "../lib/fit/penalty.ts";
 import {
   comparisonChart,
   fittedCurveChart,
@@ -78,7 +79,8 @@ function bruteForce(
       train.p,
       Float64Array.from(training, (i) => y[i]),
       penalty,
-      { alphas: ALPHAS, tolerance: TIGHT, ...read },
+      // γ resolved per design column from the fold design's orders, as the sweep resolves it
+      { alphas: ALPHAS, tolerance: TIGHT, gamma: penaltyWeights(penalty, train.orders), ...read },
     );
     // path.solutions run in decreasing α; the curve in increasing α.
     perFold.push(
@@ -114,6 +116,12 @@ Deno.test("sparse sweep equals brute force per fold (lasso and elastic net) to 1
   bruteForce(elasticNet({ mix: 0.7 }), 3, 14, { intercept: false });
 });
 
+Deno.test("weighted sparse sweeps equal brute force per fold to 1e-8 (rising weights; a 0 weight)", () => {
+  bruteForce(lasso({ weights: "rising", exponent: 1.5 }), 5, 15);
+  bruteForce(elasticNet({ mix: 0.5, weights: [0, 1, 1, 2, 2, 3, 0.5, 1, 1] }), 4, 16);
+  bruteForce(lasso({ weights: [1, 1, 1, 1, 1, 1, 0, 0.5, 2] }), 5, 17, { standardize: false });
+});
+
 Deno.test("sweepAsync gives the sparse sweep's numbers exactly", async () => {
   const spec = {
     target: "y",
@@ -143,9 +151,10 @@ function kktFromRows(m: ReturnType<typeof fit>, mix: number): number {
   });
   const ybar = y.reduce((t, v) => t + v, 0) / n;
   const vy = y.reduce((t, v) => t + (v - ybar) ** 2, 0) / n;
-  const a = s.strength * mix, beta = s.strength * (1 - mix);
   let worst = 0;
   for (let q = 0; q < p; q++) {
+    // weighted: |g_q| ≤ αργ_q at w_q = 0, g_q = α(1 − ρ)γ_q w_q + αργ_q sign(w_q) otherwise
+    const a = s.strength * mix * s.gamma[q], beta = s.strength * (1 - mix) * s.gamma[q];
     let g = 0;
     for (let i = 0; i < n; i++) g += ((design.block.hi[i * p + q] - s.means[q]) / s.sds[q]) * r[i];
     g /= n;
@@ -347,5 +356,132 @@ Deno.test("sparse df in fit, curve, residual SD and a loaded record: the count f
     if (penalty.kind === "lasso") assert.equal(loaded.df, f.df);
     else assert.ok(Math.abs(loaded.df - f.df) < 1e-12, `${loaded.df} vs ${f.df}`);
     assert.equal(loaded.nonzero, f.nonzero);
+  }
+});
+
+// ---- per-column weights γ_q (ridge's option, for the sparse penalties) --------------------------
+
+Deno.test("weights 'rising' resolve per design column from the polynomial orders, as for ridge", () => {
+  const spec = { target: "y", terms: TERMS, folds: { k: 5, seed: 7 } };
+  const ridgeSweep = sweep(COLS, {
+    ...spec,
+    penalty: ridge({ weights: "rising", exponent: 2 }),
+    lambdas: { count: 5 },
+  });
+  const sparseSweep = sweep(COLS, {
+    ...spec,
+    penalty: lasso({ weights: "rising", exponent: 2 }),
+    alphas: { count: 20 },
+  });
+  // Legendre P1…P6 have orders 1…6, plain columns order 1: γ_q = order_q² (common practice)
+  assert.deepEqual(sparseSweep.gamma, [1, 4, 9, 16, 25, 36, 1, 1, 1]);
+  assert.deepEqual(sparseSweep.gamma, ridgeSweep.gamma);
+  assert.deepEqual(sparseSweep.fit.summary.gamma, sparseSweep.gamma);
+  assert.deepEqual(sparseSweep.fit.summary.penalty, lasso({ weights: "rising", exponent: 2 }));
+  assert.match(sparseSweep.fit.summary.objective, /α Σ_q γ_q \|w\*_q\|/);
+  // the reported penalty value is Σ_q γ_q |w*_q| of each curve point's coefficients
+  sparseSweep.curve.forEach((c) => {
+    const byHand = c.path.reduce((t, w, q) => t + sparseSweep.gamma[q] * Math.abs(w), 0);
+    assert.ok(Math.abs(c.budget - byHand) <= 1e-12 * Math.max(1, byHand));
+  });
+  // fit() at the chosen α: the same model, the same γ
+  const direct = fit(COLS, {
+    target: "y",
+    terms: TERMS,
+    penalty: lasso({ weights: "rising", exponent: 2 }),
+    alpha: sparseSweep.chosen.strength,
+  });
+  assert.deepEqual(direct.summary.gamma, sparseSweep.gamma);
+  const f = sparseSweep.fit.summary;
+  const diff = Math.max(
+    ...direct.summary.coefficients.map((w, q) => Math.abs(w - f.coefficients[q])),
+  );
+  assert.ok(diff < 1e-5, `coefficients differ by ${diff}`);
+});
+
+Deno.test("weighted sweeps: KKT holds for the final model; a 0-weight column is in at every α", () => {
+  const weights = [0, 1, 1, 2, 2, 3, 0.5, 1, 1];
+  for (
+    const [penalty, mix] of [
+      [lasso({ weights }), 1],
+      [elasticNet({ mix: 0.5, weights }), 0.5],
+    ] as const
+  ) {
+    const s = sweep(COLS, {
+      target: "y",
+      terms: TERMS,
+      penalty,
+      alphas: { count: 25 },
+      folds: { k: 5, seed: 3 },
+      rule: "one-se",
+    });
+    assert.deepEqual(s.gamma, weights);
+    assert.ok(kktFromRows(s.fit, mix) < 1e-6, `KKT ${kktFromRows(s.fit, mix)}`);
+    assert.ok(s.curve.every((c) => c.path[0] !== 0), "P1(x) unpenalized: in at every α");
+    // at the largest α of the automatic path (α_max) only the unpenalized column is in
+    assert.equal(s.curve.at(-1)!.nonzero, 1);
+    assert.ok(s.fit.summary.descent!.gap >= -1e-12);
+  }
+});
+
+Deno.test("equal weights: sweep, fit and record are those of no weights, bit for bit", () => {
+  for (
+    const [plain, equal] of [
+      [lasso(), lasso({ weights: "equal" })],
+      [elasticNet({ mix: 0.3 }), elasticNet({ mix: 0.3, weights: "equal" })],
+    ]
+  ) {
+    const spec = { target: "y", terms: TERMS, alphas: { count: 15 }, folds: { k: 4, seed: 2 } };
+    const a = sweep(COLS, { ...spec, penalty: plain });
+    const b = sweep(COLS, { ...spec, penalty: equal });
+    assert.deepEqual(b.curve, a.curve);
+    assert.deepEqual(b.fit.summary, a.fit.summary);
+    assert.equal(recordJson(b), recordJson(a));
+    assert.doesNotMatch(recordJson(a), /"weights"|"gamma"/, "no weight keys without weights");
+  }
+});
+
+Deno.test("a weighted lasso candidate is compared with the plain one on the same folds", () => {
+  const c = compare(COLS, [
+    { name: "plain", terms: TERMS, penalty: lasso(), alphas: { count: 15 } },
+    {
+      name: "rising",
+      terms: TERMS,
+      penalty: lasso({ weights: "rising", exponent: 2 }),
+      alphas: { count: 15 },
+    },
+  ], { target: "y", folds: { k: 5, seed: 9 } });
+  const [plain, rising] = c.candidates;
+  assert.deepEqual(plain.sweep.folds.assignment, rising.sweep.folds.assignment);
+  assert.deepEqual(plain.sweep.gamma, new Array(9).fill(1));
+  assert.deepEqual(rising.sweep.gamma, [1, 4, 9, 16, 25, 36, 1, 1, 1]);
+  // rising weights push the high orders out sooner: at the chosen α, no more high-order terms
+  const high = (s: typeof plain.sweep) =>
+    s.fit.summary.coefficients.slice(3, 6).filter((w) => w !== 0).length;
+  assert.ok(high(rising.sweep) <= high(plain.sweep));
+});
+
+Deno.test("weights that do not fit the design are errors naming the option", () => {
+  const cases: [string, () => unknown, RegExp][] = [
+    [
+      "penalty.weights",
+      () =>
+        fit(COLS, { target: "y", terms: TERMS, penalty: lasso({ weights: [1, 2] }), alpha: 0.1 }),
+      /2 weights were given for 9 design columns/,
+    ],
+    [
+      "penalty.weights[2]",
+      () => sweep(COLS, { target: "y", terms: TERMS, penalty: lasso({ weights: [1, 1, -2] }) }),
+      /weight 3 is -2/,
+    ],
+  ];
+  for (const [option, run, words] of cases) {
+    assert.throws(run, (e: unknown) => {
+      assert.ok(e instanceof CurbfitError);
+      assert.equal(e.code, "BAD_OPTION");
+      assert.equal(e.place.option, option);
+      assert.match(e.message, words);
+      return true;
+    });
   }
 });

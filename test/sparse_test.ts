@@ -85,6 +85,8 @@ function maxAbsDiff(a: readonly number[], b: readonly number[]): number {
 /**
  * Largest scaled KKT violation of a solution, from the rows: z = standardized (or raw) columns,
  * r = y − b − xᵀw, g_j = ⟨z_j, r⟩/N, scaled by √(mean z_j² · mean r₀²) with r₀ = y − ȳ (or y).
+ * With column weights γ_j (path.gamma) the conditions are |g_j| ≤ αργ_j at w_j = 0 and
+ * g_j = α(1 − ρ)γ_j w_j + αργ_j sign(w_j) otherwise (the subgradient of the weighted penalty).
  */
 function kktFromRows(
   x: Float64Array,
@@ -95,7 +97,6 @@ function kktFromRows(
   const n = y.length;
   const p = x.length / n;
   const mix = path.penalty.mix;
-  const a = s.alpha * mix, beta = s.alpha * (1 - mix);
   const ybar = path.intercept ? y.reduce((t, v) => t + v, 0) / n : 0;
   const r = Float64Array.from(y, (v, i) => {
     let fitted = s.intercept;
@@ -114,6 +115,7 @@ function kktFromRows(
     }
     g /= n;
     const w = s.standardized[q];
+    const a = s.alpha * mix * path.gamma[q], beta = s.alpha * (1 - mix) * path.gamma[q];
     const raw = w === 0 ? Math.max(Math.abs(g) - a, 0) : Math.abs(g - beta * w - Math.sign(w) * a);
     worst = Math.max(worst, raw / Math.sqrt((zz / n) * vy));
   }
@@ -443,9 +445,10 @@ function denseSolve(m: Float64Array, b: Float64Array, k: number, cols: number): 
 }
 
 /**
- * tr H for H = Z_A (Z_AᵀZ_A + c·I)⁻¹ Z_Aᵀ, c = N·α·(1 − ρ), formed from the rows: Z_A holds the
- * active columns, centered (with an intercept) and divided by their SD (divisor N, about the
- * mean, when standardizing; else 1), as the objective in lib/sparse/penalty.ts defines them.
+ * tr H for H = Z_A (Z_AᵀZ_A + c·Γ_A)⁻¹ Z_Aᵀ, c = N·α·(1 − ρ), Γ = diag(γ) (I by default), formed
+ * from the rows: Z_A holds the active columns, centered (with an intercept) and divided by their
+ * SD (divisor N, about the mean, when standardizing; else 1), as the objective in
+ * lib/sparse/penalty.ts defines them.
  */
 function hatTraceFromRows(
   x: Float64Array,
@@ -453,6 +456,7 @@ function hatTraceFromRows(
   s: SparseSolution,
   mix: number,
   read: { standardize: boolean; intercept: boolean },
+  gamma: readonly number[] = new Array(x.length / y.length).fill(1),
 ): number {
   const n = y.length;
   const p = x.length / n;
@@ -473,7 +477,7 @@ function hatTraceFromRows(
     for (let b = 0; b < k; b++) {
       let t = 0;
       for (let i = 0; i < n; i++) t += z[i * k + a] * z[i * k + b];
-      m[a * k + b] = t + (a === b ? c : 0);
+      m[a * k + b] = t + (a === b ? c * gamma[active[a]] : 0);
     }
   }
   const zt = new Float64Array(k * n);
@@ -633,4 +637,308 @@ Deno.test("fold paths (scored on held-out rows) skip df unless asked; reporting 
   const plain = sparsePath(gramProblem(train), penalty, { alphas: { count: 5 } });
   assert.deepEqual(asked.solutions.map((s) => s.df), plain.solutions.map((s) => s.df));
   assert.ok(plain.solutions.every((s) => typeof s.df === "number"));
+});
+
+// ---- per-column weights γ_q ----------------------------------------------------------------------
+
+/** Weights for the diabetes columns in the checks below: bp (index 3) unpenalized, others spread. */
+const GAMMA = [0.5, 1, 2, 0, 1.5, 1, 3, 0.7, 1, 0.2];
+
+/** Standardized diabetes columns (x − mean)/SD, SD with divisor N, as gram.ts standardizes. */
+function standardizedColumns(x: Float64Array, n: number): Float64Array {
+  const z = new Float64Array(x.length);
+  for (let q = 0; q < P; q++) {
+    let mean = 0;
+    for (let i = 0; i < n; i++) mean += x[i * P + q] / n;
+    let ss = 0;
+    for (let i = 0; i < n; i++) ss += (x[i * P + q] - mean) ** 2;
+    const sd = Math.sqrt(ss / n);
+    for (let i = 0; i < n; i++) z[i * P + q] = (x[i * P + q] - mean) / sd;
+  }
+  return z;
+}
+
+Deno.test("a weighted lasso is the plain lasso on columns x_q/γ_q with coefficient γ_q·w_q", () => {
+  // Handbook identity (common practice; it is how the adaptive lasso of Zou 2006, J. Amer.
+  // Statist. Assoc. 101, is usually fitted — recalled from memory): with v_q = γ_q w_q,
+  // Σ_q γ_q |w_q| = Σ_q |v_q| and x_q w_q = (x_q/γ_q) v_q, so both are the same problem in other
+  // coordinates (γ_q > 0). Standardization must be accounted for: it divides x_q/γ_q by its own
+  // SD and so undoes the rescaling. Hence (1) on raw columns (standardize: false) and (2) for the
+  // default standardized fit, on the standardized columns z*_q formed here from the rows.
+  const { x, y, n } = diabetes();
+  const gamma = GAMMA.map((g) => (g === 0 ? 1 : g));
+  const check = (
+    columns: Float64Array,
+    weighted: SparsePath,
+    coefficient: (s: SparseSolution, q: number) => number,
+    raw: boolean,
+  ) => {
+    const scaled = Float64Array.from(columns, (v, k) => v / gamma[k % P]);
+    const plain = sparsePathFromRows(scaled, P, y, lasso(), {
+      alphas: weighted.solutions.map((s) => s.alpha),
+      tolerance: 1e-13,
+      standardize: false,
+    });
+    assert.ok(Math.abs(plain.alphaMax / weighted.alphaMax - 1) < 1e-12, "α_max");
+    let worst = 0;
+    const top = Math.max(...plain.solutions.flatMap((v) => v.coefficients.map(Math.abs)));
+    weighted.solutions.forEach((s, k) => {
+      const v = plain.solutions[k];
+      s.coefficients.forEach((_, q) => {
+        worst = Math.max(worst, Math.abs(gamma[q] * coefficient(s, q) - v.coefficients[q]) / top);
+      });
+      // (at α_max itself either side may keep a coefficient of rounding size)
+      if (k > 0) assert.equal(s.nonzero, v.nonzero, `α ${s.alpha}`);
+      // on the raw columns the intercepts are the same number too (standardized: centred there)
+      if (raw) assert.ok(Math.abs(s.intercept - v.intercept) <= 1e-9 * Math.abs(v.intercept));
+    });
+    // measured: 2.6e-14 (raw) and 2.9e-14 (standardized) of the path's largest coefficient
+    assert.ok(worst < 1e-9, `largest difference ${worst} of the largest coefficient`);
+  };
+  const options = { alphas: { count: 30 }, tolerance: 1e-13 };
+  const raw = sparsePathFromRows(x, P, y, lasso({ weights: gamma }), {
+    ...options,
+    standardize: false,
+  });
+  check(x, raw, (s, q) => s.coefficients[q], true);
+  const standardized = sparsePathFromRows(x, P, y, lasso({ weights: gamma }), options);
+  check(standardizedColumns(x, n), standardized, (s, q) => s.standardized[q], false);
+  // Rescaling raw columns does not weigh a standardized lasso at all: the same standardized fit.
+  const rescaled = Float64Array.from(x, (v, k) => v / gamma[k % P]);
+  const a = sparsePathFromRows(rescaled, P, y, lasso(), { alphas: [0.5], tolerance: 1e-13 });
+  const b = sparsePathFromRows(x, P, y, lasso(), { alphas: [0.5], tolerance: 1e-13 });
+  assert.ok(maxAbsDiff(a.solutions[0].standardized, b.solutions[0].standardized) < 1e-9);
+});
+
+for (const mix of [1, 0.4]) {
+  Deno.test(`KKT holds (from the rows) with weights and an unpenalized column, mix ${mix}`, () => {
+    const { x, y } = diabetes();
+    const penalty = mix === 1 ? lasso({ weights: GAMMA }) : elasticNet({ mix, weights: GAMMA });
+    const variants = [
+      { tolerance: 1e-10 },
+      { tolerance: 1e-10, intercept: false },
+      { tolerance: 1e-10, standardize: false },
+    ];
+    for (const options of variants) {
+      const path = sparsePathFromRows(x, P, y, penalty, options);
+      assert.deepEqual(path.gamma, GAMMA);
+      for (const s of path.solutions) {
+        assert.ok(s.converged && s.violation <= options.tolerance);
+        const fromRows = kktFromRows(x, y, path, s);
+        assert.ok(fromRows <= options.tolerance + 1e-12, `${JSON.stringify(options)} ${fromRows}`);
+        // the duality gap with the unpenalized column projected out (path.ts): ≥ 0 and small
+        assert.ok(s.gap >= -1e-12 * s.trainMse && s.gap <= 1e-6 * path.solutions[0].trainMse);
+      }
+    }
+  });
+}
+
+Deno.test("γ_q = 0 keeps a column in the model at every α; above α_max it is least squares alone", () => {
+  const { x, y, n } = diabetes();
+  const bp = NAMES.indexOf("bp");
+  assert.equal(GAMMA[bp], 0);
+  for (const penalty of [lasso({ weights: GAMMA }), elasticNet({ mix: 0.3, weights: GAMMA })]) {
+    const path = sparsePathFromRows(x, P, y, penalty, { tolerance: 1e-12 });
+    assert.ok(path.solutions.every((s) => s.standardized[bp] !== 0), "in at every α of the path");
+    const top = path.alphaMax;
+    const above = sparsePathFromRows(x, P, y, penalty, {
+      alphas: [10 * top, top, top * (1 - 1e-9)],
+      tolerance: 1e-13,
+    });
+    const [far, atMax, below] = above.solutions;
+    // at and above α_max only the unpenalized column: its least-squares slope with an
+    // intercept, Sxy/Sxx (the handbook formula of simple linear regression), from the rows
+    let mx = 0, my = 0;
+    for (let i = 0; i < n; i++) (mx += x[i * P + bp] / n), (my += y[i] / n);
+    let sxy = 0, sxx = 0;
+    for (let i = 0; i < n; i++) {
+      sxy += (x[i * P + bp] - mx) * (y[i] - my);
+      sxx += (x[i * P + bp] - mx) ** 2;
+    }
+    for (const s of [far, atMax]) {
+      assert.equal(s.nonzero, 1);
+      assert.ok(Math.abs(s.coefficients[bp] / (sxy / sxx) - 1) < 1e-12, `${s.coefficients[bp]}`);
+      assert.ok(Math.abs(s.intercept - (my - mx * s.coefficients[bp])) < 1e-9);
+    }
+    // just below α_max the first penalized column enters: α_max is max |g_q|/(ργ_q) over γ_q > 0
+    assert.equal(below.nonzero, 2);
+    // df: 1 for the unpenalized column, plus the entered one's share
+    assert.equal(far.df, 1);
+  }
+});
+
+Deno.test("weighted elastic-net df equals tr[Z_A (Z_AᵀZ_A + N·α·(1 − ρ)·Γ_A)⁻¹ Z_Aᵀ] from rows to 1e-10", () => {
+  const cases = [
+    { n: 40, p: 6, seed: 21, mix: 0.5, weights: [0, 1, 2, 0.5, 3, 1] },
+    { n: 30, p: 7, seed: 24, mix: 0.25, weights: [1, 0, 0, 4, 0.25, 2, 1] },
+    { n: 60, p: 5, seed: 23, mix: 0.8, weights: [2, 1, 0.5, 1, 3] },
+  ];
+  let checked = 0, worst = 0;
+  for (const { n, p, seed, mix, weights } of cases) {
+    const { x, y } = correlated(n, p, seed);
+    const read = { standardize: true, intercept: true };
+    const path = sparsePathFromRows(x, p, y, elasticNet({ mix, weights }), {
+      alphas: { count: 12 },
+      tolerance: 1e-10,
+    });
+    for (const s of path.solutions) {
+      const df = solutionDf(s);
+      if (s.nonzero === 0) {
+        assert.equal(df, 0);
+        continue;
+      }
+      const trace = hatTraceFromRows(x, y, s, mix, read, weights);
+      const rel = Math.abs(df - trace) / trace;
+      worst = Math.max(worst, rel);
+      assert.ok(rel < 1e-10, `p ${p} ρ ${mix} α ${s.alpha}: ${df} vs ${trace}`);
+      checked++;
+    }
+    const lassoPath = sparsePathFromRows(x, p, y, lasso({ weights }), { alphas: { count: 12 } });
+    for (const s of lassoPath.solutions) assert.equal(s.df, s.nonzero, "the lasso: the count");
+  }
+  // measured: 35 solutions with an active column, largest relative difference 1.1e-15
+  assert.ok(checked >= 30, `${checked} checked, worst ${worst}`);
+});
+
+Deno.test("weighted df (with an unpenalized column) is Stein's divergence of the solver's fitted values", () => {
+  const n = 30, p = 5;
+  const { x, y } = correlated(n, p, 31);
+  const h = 1e-4;
+  const cases: [SparsePenalty, number][] = [
+    [elasticNet({ mix: 0.5, weights: [0, 2, 1, 0.5, 1] }), 0.05],
+    [elasticNet({ mix: 0.2, weights: [1, 1, 3, 0, 0.5] }), 0.3],
+    [lasso({ weights: [0, 2, 1, 0.5, 1] }), 0.05],
+  ];
+  for (const [penalty, alpha] of cases) {
+    const solve = (yy: Float64Array) =>
+      sparsePathFromRows(x, p, yy, penalty, { alphas: [alpha], tolerance: 1e-14 }).solutions[0];
+    const base = solve(y);
+    const pattern = (s: SparseSolution) => s.standardized.map((w) => Math.sign(w)).join();
+    const fitted = (s: SparseSolution, i: number) =>
+      s.coefficients.reduce((t, w, q) => t + w * x[i * p + q], s.intercept);
+    let divergence = 0;
+    for (let i = 0; i < n; i++) {
+      const up = Float64Array.from(y), down = Float64Array.from(y);
+      up[i] += h;
+      down[i] -= h;
+      const a = solve(up), b = solve(down);
+      assert.equal(pattern(a), pattern(base));
+      assert.equal(pattern(b), pattern(base));
+      divergence += (fitted(a, i) - fitted(b, i)) / (2 * h);
+    }
+    // as in the unweighted check above: exact for a locally affine fit but for rounding and
+    // the stopping error divided by h; a wrong Γ or a missed projection moves df by far more
+    assert.ok(Math.abs(divergence - 1 - solutionDf(base)) < 1e-8, `${divergence - 1}`);
+  }
+});
+
+Deno.test("ρ → 0 with weights is the weighted ridge λ Σ γ_q w*_q² at λ_ridge = N·α (ridge engine as reference)", () => {
+  const { x, y, n } = diabetes();
+  const weights = GAMMA.map((g) => (g === 0 ? 0.3 : g)); // the ridge engine takes γ > 0
+  const [m] = bucketMoments(x, P, y, new Int32Array(n), 1);
+  const mix = 1e-12;
+  const spectrum = decompose(m, {
+    gamma: Float64Array.from(weights),
+    standardize: true,
+    intercept: true,
+  });
+  for (const alpha of [0.01, 0.3, 5]) {
+    const s = sparsePath(gramProblem(m), elasticNet({ mix, weights }), {
+      alphas: [alpha],
+      tolerance: 1e-13,
+    }).solutions[0];
+    const ridge = solutionAt(spectrum, n * alpha * (1 - mix));
+    s.coefficients.forEach((w, q) => assert.ok(Math.abs(w / ridge.w[q] - 1) < 1e-8, `α ${alpha}`));
+    assert.ok(Math.abs(solutionDf(s) / ridge.df - 1) < 1e-10, `df at α ${alpha}`);
+  }
+});
+
+Deno.test("equal weights give the very numbers of no weights; a list of ones differs only in its label", () => {
+  const { x, y } = diabetes();
+  assert.deepEqual(lasso({ weights: "equal" }), lasso());
+  assert.deepEqual(elasticNet({ mix: 0.3, weights: "equal" }), elasticNet({ mix: 0.3 }));
+  assert.equal("weights" in lasso(), false, "no weights key without weights");
+  for (const mix of [1, 0.3]) {
+    const plain = sparsePathFromRows(x, P, y, penaltyFor(mix), { tolerance: 1e-10 });
+    const equal = sparsePathFromRows(
+      x,
+      P,
+      y,
+      mix === 1 ? lasso({ weights: "equal" }) : elasticNet({ mix, weights: "equal" }),
+      { tolerance: 1e-10 },
+    );
+    assert.equal(JSON.stringify(equal), JSON.stringify(plain), "bit for bit, penalty included");
+    const ones = new Array(P).fill(1);
+    const listed = sparsePathFromRows(
+      x,
+      P,
+      y,
+      mix === 1 ? lasso({ weights: ones }) : elasticNet({ mix, weights: ones }),
+      { tolerance: 1e-10 },
+    );
+    assert.deepEqual(listed.solutions, plain.solutions, "the same numbers, bit for bit");
+    assert.deepEqual(listed.penalty.weights, ones);
+    assert.deepEqual(plain.gamma, ones);
+  }
+});
+
+Deno.test("bad weights get a clear CurbfitError naming the option", () => {
+  const { x, y, n } = diabetes();
+  const fails = (code: string, f: () => unknown, words: RegExp, option?: string) =>
+    assert.throws(f, (e) => {
+      assert.ok(e instanceof CurbfitError, String(e));
+      assert.equal(e.code, code);
+      assert.match(e.message, words);
+      if (option !== undefined) assert.equal(e.place.option, option);
+      return true;
+    });
+  fails(
+    "BAD_OPTION",
+    () => lasso({ weights: [1, -1] }),
+    /weight 2 is -1.*>= 0/,
+    "penalty.weights[1]",
+  );
+  fails(
+    "BAD_OPTION",
+    () => elasticNet({ weights: [0, 0] }),
+    /every weight .* is 0/,
+    "penalty.weights",
+  );
+  fails("BAD_OPTION", () => lasso({ weights: [1, NaN] }), /weight 2 is NaN/);
+  fails(
+    "BAD_OPTION",
+    () => lasso({ exponent: 2 }),
+    /exponent .* equal weights/,
+    "penalty.exponent",
+  );
+  fails("BAD_OPTION", () => lasso({ weights: "rising", exponent: -1 }), /exponent is -1/);
+  fails(
+    "BAD_OPTION",
+    () => sparsePathFromRows(x, P, y, lasso({ weights: "rising" })),
+    /polynomial order/,
+    "penalty.weights",
+  );
+  fails(
+    "BAD_OPTION",
+    () => sparsePathFromRows(x, P, y, lasso({ weights: [1, 2] })),
+    /2 weights were given for 10 design columns/,
+    "penalty.weights",
+  );
+  fails(
+    "BAD_OPTION",
+    () => sparsePathFromRows(x, P, y, lasso(), { gamma: new Array(P).fill(0) }),
+    /every column weight is 0/,
+    "gamma",
+  );
+  // two identical unpenalized columns: their least-squares coefficients are not determined
+  const twin = Float64Array.from(
+    { length: n * 3 },
+    (_, k) => x[Math.floor(k / 3) * P + [2, 2, 3][k % 3]],
+  );
+  fails(
+    "RANK_DEFICIENT",
+    () => sparsePathFromRows(twin, 3, y, lasso({ weights: [0, 0, 1] })),
+    /unpenalized design columns \(weight 0: columns 1, 2\) are collinear/,
+    "penalty.weights",
+  );
 });

@@ -81,13 +81,15 @@ const penalty: OptionSpec = {
   name: "penalty",
   value: "PENALTY",
   help: "ridge (γ = 1, default), ridge:rising[:E], ridge:falling[:E], ridge:W1,W2,…, " +
-    "lasso, or elastic-net[:MIX] (L1 share, default 0.5; swept over α, --alphas)",
+    "lasso[:WEIGHTS], or elastic-net[:MIX[:WEIGHTS]] (L1 share, default 0.5; swept over α, " +
+    "--alphas); WEIGHTS as after ridge:, 0 for an unpenalized column",
 };
 const fitPenalty: OptionSpec = {
   name: "penalty",
   value: "PENALTY",
   help: "ridge (γ = 1, default), ridge:rising[:E], ridge:falling[:E], ridge:W1,W2,…, " +
-    "lasso, or elastic-net[:MIX] (L1 share, default 0.5; strength --alpha)",
+    "lasso[:WEIGHTS], or elastic-net[:MIX[:WEIGHTS]] (L1 share, default 0.5; strength " +
+    "--alpha); WEIGHTS as after ridge:, 0 for an unpenalized column",
 };
 const scale: OptionSpec = {
   name: "scale",
@@ -229,8 +231,8 @@ export const COMMANDS: readonly CommandSpec[] = [
       { ...term, help: "a term every candidate without terms=… uses" },
       {
         ...penalty,
-        help: "the penalty of candidates without penalty=… (default ridge; lasso, " +
-          "elastic-net[:MIX])",
+        help: "the penalty of candidates without penalty=… (default ridge; lasso[:WEIGHTS], " +
+          "elastic-net[:MIX[:WEIGHTS]])",
       },
       scale,
       intercept,

@@ -45,7 +45,10 @@ export function fitBlocks(f: Fit, table: Table): Block[] {
         }; ${strengthSymbol(s.scale)} = ${n(s.strength)} ` +
         (s.descent === null
           ? `(penalty budget C = ${n(s.budget)}).`
-          : `(P(w*) = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² = ${n(s.budget)}).`),
+          : s.gamma.every((g) => g === 1)
+          ? `(P(w*) = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² = ${n(s.budget)}).`
+          : `(P(w*) = Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] = ${n(s.budget)}; γ = ` +
+            `${s.gamma.map(n).join(", ")}).`),
       ],
     },
     {

@@ -17,8 +17,9 @@
  * double quotes, with `""` for a quote inside: `column:"rate: mm/h"`.
  *
  * Penalties: `ridge` (γ = 1), `ridge:rising[:EXPONENT]`, `ridge:falling[:EXPONENT]`,
- * `ridge:W1,W2,…` (one γ per design column), `lasso`, `elastic-net[:MIX]` (MIX the L1 share ρ;
- * their strength is α in the 1/(2N) convention).
+ * `ridge:W1,W2,…` (one γ per design column), `lasso[:WEIGHTS]`, `elastic-net[:MIX[:WEIGHTS]]`
+ * (MIX the L1 share ρ; their strength is α in the 1/(2N) convention), WEIGHTS written as after
+ * `ridge:` (`rising[:E]`, `falling[:E]`, `W1,W2,…`; a 0 leaves a column unpenalized).
  *
  * Candidates (`--candidate`, or one per line of a `--candidates` file): `key=value` pairs
  * separated by `;`, e.g. `name=degree 2; terms=legendre:x:2 + column:z; lambdas=0`. Keys are the
@@ -31,7 +32,7 @@
 import { CurbfitError, describePlace, type ErrorCode } from "../errors/error.ts";
 import type { Json, Term } from "../design/types.ts";
 import { column, indicators, legendre, power, product } from "../design/mod.ts";
-import { type Penalty, ridge, type RidgePenalty } from "../fit/penalty.ts";
+import { type Penalty, ridge, type RidgePenalty, type RidgeWeights } from "../fit/penalty.ts";
 import { elasticNet, lasso } from "../sparse/mod.ts";
 import { nearestWord } from "../magic/words.ts";
 
@@ -389,31 +390,60 @@ export function formatTerm(spec: Json): string {
 
 /**
  * A penalty in the command-line syntax: `ridge`, `ridge:rising[:E]`, `ridge:falling[:E]`,
- * `ridge:W1,W2,…`; or `lasso`, `elastic-net[:MIX]` (MIX the L1 share ρ, default 0.5), whose
- * strength is α in the 1/(2N) convention, not λ.
+ * `ridge:W1,W2,…`; or `lasso[:WEIGHTS]`, `elastic-net[:MIX[:WEIGHTS]]` (MIX the L1 share ρ,
+ * default 0.5), whose strength is α in the 1/(2N) convention, not λ. WEIGHTS are the γ weights
+ * as ridge takes them — `rising[:E]`, `falling[:E]` or `W1,W2,…` — and may be 0 for the sparse
+ * penalties (an unpenalized column); for the elastic net they follow the MIX.
  *
  * @example
  * ```ts
  * import { parsePenalty } from "./syntax.ts";
  * console.log(parsePenalty("ridge:rising:2", "--penalty")); // { kind: "ridge", weights: "rising", exponent: 2 }
+ * console.log(parsePenalty("elastic-net:0.5:0,1,1", "--penalty").weights); // [0, 1, 1]
  * ```
  */
 export function parsePenalty(text: string, option: string): Penalty {
-  const [kind, shape, exponent, ...extra] = text.trim().split(":").map((p) => p.trim());
-  const hint =
-    "Write ridge, ridge:rising:2, ridge:falling:1 or ridge:1,2,4 (one γ per design column), " +
-    "lasso, or elastic-net:0.5 (the L1 share)";
-  if (kind === "lasso" && shape === undefined) return lasso();
-  if (kind === "elastic-net" && exponent === undefined) {
-    if (shape === undefined) return elasticNet();
-    const mix = parseNumber(shape, `the L1 share in ${option}`);
-    return asOption(option, text, () => elasticNet({ mix }));
+  const [kind, ...rest] = text.trim().split(":").map((p) => p.trim());
+  const read = (fields: string[], after: string) => parseWeights(fields, option, text, after);
+  if (kind === "lasso") {
+    const weights = read(rest, "lasso");
+    return asOption(option, text, () => lasso(weights));
   }
-  if (kind !== "ridge" || extra.length > 0) {
+  if (kind === "elastic-net") {
+    if (rest.length === 0) return elasticNet();
+    const mix = parseNumber(rest[0], `the L1 share in ${option}`);
+    const weights = read(rest.slice(1), `elastic-net:${rest[0]}`);
+    return asOption(option, text, () => elasticNet({ mix, ...weights }));
+  }
+  if (kind !== "ridge") {
     throw usageError(
       option,
       `${option} is ${JSON.stringify(text)}, which is not a penalty this version knows`,
-      hint,
+      PENALTY_HINT,
+    );
+  }
+  const weights = read(rest, "ridge");
+  return asOption(option, text, () => ridge(weights));
+}
+
+const PENALTY_HINT =
+  "Write ridge, ridge:rising:2, ridge:falling:1 or ridge:1,2,4 (one γ per design column), " +
+  "lasso or lasso:rising:2, or elastic-net:0.5 (the L1 share), with weights after it as in " +
+  "elastic-net:0.5:0,1,1 (0: unpenalized)";
+
+/** The weight fields after a penalty's kind (and an elastic net's MIX): none means equal. */
+function parseWeights(
+  fields: readonly string[],
+  option: string,
+  text: string,
+  after: string,
+): { weights?: RidgeWeights; exponent?: number } {
+  const [shape, exponent, ...extra] = fields;
+  if (extra.length > 0) {
+    throw usageError(
+      option,
+      `${option} is ${JSON.stringify(text)}, which is not a penalty this version knows`,
+      PENALTY_HINT,
     );
   }
   if (shape === undefined || shape === "equal") {
@@ -423,51 +453,64 @@ export function parsePenalty(text: string, option: string): Penalty {
         `${option} ${
           JSON.stringify(text)
         } has an exponent, which only rising and falling weights take`,
-        hint,
+        PENALTY_HINT,
       );
     }
-    return ridge();
+    return {};
   }
   if (shape === "rising" || shape === "falling") {
-    const e = exponent === undefined
-      ? undefined
-      : parseNumber(exponent, `the exponent in ${option}`);
-    return asOption(option, text, () => ridge({ weights: shape, exponent: e }));
+    return exponent === undefined
+      ? { weights: shape }
+      : { weights: shape, exponent: parseNumber(exponent, `the exponent in ${option}`) };
   }
   if (exponent !== undefined || !/^[\d.,eE+\s-]+$/.test(shape)) {
     throw usageError(
       option,
-      `${option} is ${JSON.stringify(text)}: after ridge: comes equal, rising, falling or a ` +
+      `${option} is ${JSON.stringify(text)}: after ${after}: comes equal, rising, falling or a ` +
         "list of weights",
-      hint,
+      PENALTY_HINT,
     );
   }
-  const weights = shape.split(",").map((w) => parseNumber(w, `a weight in ${option}`));
-  return asOption(option, text, () => ridge({ weights }));
+  return { weights: shape.split(",").map((w) => parseNumber(w, `a weight in ${option}`)) };
 }
 
 /**
- * A penalty written in the command-line syntax (ridge weights, or a sparse penalty's kind and
- * L1 share).
+ * A penalty written in the command-line syntax (ridge weights, or a sparse penalty's kind, L1
+ * share and weights when it has any).
  *
  * @example
  * ```ts
  * import { formatPenalty } from "./syntax.ts";
  * console.log(formatPenalty({ weights: "rising", exponent: 2 })); // ridge:rising:2
+ * console.log(formatPenalty({ kind: "lasso", mix: 1, weights: [0, 1] })); // lasso:0,1
  * ```
  */
 export function formatPenalty(
   penalty:
     | { readonly weights: RidgePenalty["weights"]; readonly exponent: number }
-    | { readonly kind: "lasso" | "elastic-net"; readonly mix: number },
+    | {
+      readonly kind: "lasso" | "elastic-net";
+      readonly mix: number;
+      readonly weights?: RidgePenalty["weights"];
+      readonly exponent?: number;
+    },
 ): string {
   if ("mix" in penalty) {
-    return penalty.kind === "lasso" ? "lasso" : `elastic-net:${penalty.mix}`;
+    const head = penalty.kind === "lasso" ? "lasso" : `elastic-net:${penalty.mix}`;
+    const weights = penalty.weights === undefined
+      ? ""
+      : formatWeights(penalty.weights, penalty.exponent ?? 1);
+    return weights === "" ? head : `${head}:${weights}`;
   }
-  const { weights, exponent } = penalty;
-  if (typeof weights !== "string") return `ridge:${weights.join(",")}`;
-  if (weights === "equal") return "ridge";
-  return `ridge:${weights}:${exponent}`;
+  const weights = formatWeights(penalty.weights, penalty.exponent);
+  return weights === "" ? "ridge" : `ridge:${weights}`;
+}
+
+/** Weights as they follow a penalty's kind: "" for equal weights. */
+function formatWeights(weights: RidgeWeights, exponent: number): string {
+  if (typeof weights !== "string") return weights.join(",");
+  if (weights === "equal") return "";
+  return `${weights}:${exponent}`;
 }
 
 /**

@@ -8,7 +8,8 @@
  * The constraint form minimizes E_in subject to Σ γ_q (s_q w_q)² ≤ C.
  *
  * With `penalty: lasso()` or `elasticNet({ mix })` the strength is `alpha`, in the 1/(2N)
- * convention: minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α·[ρ Σ_q |w*_q| + ((1 − ρ)/2) Σ_q w*_q²],
+ * convention: minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²]
+ * (γ_q from the penalty's `weights`, resolved per column as for ridge; all 1 without them),
  * solved by coordinate descent (sparse_fit.ts). `lambda`/`budget` belong to ridge and `alpha` to
  * the sparse penalties; mixing them is an error, and every summary says its `scale`.
  *
@@ -94,20 +95,20 @@ export interface FitSummary {
   readonly scale: StrengthScale;
   /** The minimized objective, stated exactly. */
   readonly objective: string;
-  /** γ_q per design column (all 1 for a sparse penalty). */
+  /** γ_q per design column (all 1 for a sparse penalty without weights). */
   readonly gamma: readonly number[];
   /** Penalty strength: ridge λ (sum-of-squares units) or sparse α (1/(2N) units); see `scale`. */
   readonly strength: number;
   /**
    * Ridge: budget C(λ) = Σ γ_q (s_q w_q)² met by the solution. Sparse: the penalty's value per
-   * unit α, ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (‖w*‖₁ for the lasso).
+   * unit α, Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] (‖w*‖₁ for the unweighted lasso).
    */
   readonly budget: number;
   /**
    * Effective degrees of freedom, intercept not counted. Ridge: Σ σ²/(σ²+λ). Sparse:
-   * Σ_j μ_j/(μ_j + α(1 − ρ)) over the eigenvalues μ_j of the active block of the (standardized)
-   * Gram matrix (lib/sparse/df.ts) — the nonzero count for the lasso, below it for the elastic
-   * net.
+   * tr[(G_AA + α(1 − ρ)Γ_A)⁻¹ G_AA] over the active block of the (standardized) Gram matrix,
+   * Γ = diag(γ) (lib/sparse/df.ts; Σ_j μ_j/(μ_j + α(1 − ρ)) over its eigenvalues μ_j with equal
+   * weights) — the nonzero count for the lasso, below it for the elastic net.
    */
   readonly df: number;
   /** Number of nonzero coefficients. */
@@ -256,7 +257,10 @@ export function fitPrepared(
   const sds = scales ? scales.sds : new Float64Array(p).fill(1);
   if (scales) checkNotConstant(design, sds, scales.means);
   const gamma = penaltyWeights(penalty, design.orders);
-  const options = { gamma, standardize, intercept };
+  // A sparse fit takes only the condition number from the basis, which uses unit weights (its
+  // γ may hold zeros, which the ridge spectrum cannot take).
+  const basisGamma = isSparse(penalty) ? new Float64Array(p).fill(1) : gamma;
+  const options = { gamma: basisGamma, standardize, intercept };
   const basis = solverBasis(design, y, sds, options, { ...known, moments });
   const condition = basis.condition;
   if (isSparse(penalty)) {

@@ -1,15 +1,23 @@
 /**
  * Penalties. The quadratic ("ridge" / weight-decay) penalty is λ Σ_q γ_q w*_q², where w*_q is
  * the coefficient of column q on the standardized scale (or the raw scale with
- * `standardize: false`) and γ_q ≥ 0 per-column weights, all > 0 here. The intercept is never
- * penalized. λ is in sum-of-squares units: the fitted objective is Σᵢ residualᵢ² + λ Σ γ_q w*_q².
+ * `standardize: false`) and γ_q > 0 per-column weights. The intercept is never penalized. λ is in
+ * sum-of-squares units: the fitted objective is Σᵢ residualᵢ² + λ Σ γ_q w*_q².
+ *
+ * The same per-column weights, with the same option name and schemes, serve the sparse
+ * penalties of lib/sparse (`lasso({ weights })`, `elasticNet({ mix, weights })`): there
+ * γ_q ≥ 0, and γ_q = 0 leaves a column unpenalized.
  *
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
 import type { SparsePenalty } from "../sparse/penalty.ts";
 
-/** How γ_q is chosen: all equal, growing with polynomial order, falling with it, or given. */
+/**
+ * How γ_q is chosen: all equal, growing with polynomial order, falling with it, or given. One
+ * vocabulary for every penalty: `ridge({ weights })`, `lasso({ weights })` and
+ * `elasticNet({ mix, weights })` all take it.
+ */
 export type RidgeWeights = "equal" | "rising" | "falling" | readonly number[];
 
 /** A quadratic penalty λ Σ γ_q w*_q². */
@@ -38,9 +46,31 @@ export interface RidgePenalty {
  * ```
  */
 export function ridge(options: { weights?: RidgeWeights; exponent?: number } = {}): RidgePenalty {
+  const { weights, exponent } = checkedWeights(options, "ridge");
+  return Object.freeze({ kind: "ridge", weights, exponent });
+}
+
+/**
+ * The weight settings of a penalty, checked, with defaults filled in (`"equal"`, exponent 1)
+ * and an explicit array copied and frozen. Ridge weights must be > 0; the weights of a sparse
+ * penalty (`kind` "lasso" or "elastic-net") may be 0 (that column is then unpenalized) but not
+ * all of them. Errors name the option (`penalty.weights`, `penalty.weights[q]`,
+ * `penalty.exponent`).
+ *
+ * @example
+ * ```ts
+ * import { checkedWeights } from "./penalty.ts";
+ * console.log(checkedWeights({ weights: [0, 1, 2] }, "lasso")); // { weights: [0, 1, 2], exponent: 1 }
+ * ```
+ */
+export function checkedWeights(
+  options: { readonly weights?: RidgeWeights; readonly exponent?: number },
+  kind: Penalty["kind"],
+): { readonly weights: RidgeWeights; readonly exponent: number } {
   const weights = options.weights ?? "equal";
   const exponent = options.exponent ?? 1;
-  if (!Number.isFinite(exponent) || exponent < 0) {
+  const sparse = kind !== "ridge";
+  if (!(typeof exponent === "number" && Number.isFinite(exponent) && exponent >= 0)) {
     throw new CurbfitError(
       "BAD_OPTION",
       `the exponent is ${exponent}, but it must be a finite number >= 0`,
@@ -48,45 +78,62 @@ export function ridge(options: { weights?: RidgeWeights; exponent?: number } = {
       { option: "penalty.exponent" },
     );
   }
-  if (typeof weights !== "string") {
+  if (Array.isArray(weights)) {
     weights.forEach((g, q) => {
-      if (!(Number.isFinite(g) && g > 0)) {
+      if (!(typeof g === "number" && Number.isFinite(g) && (sparse ? g >= 0 : g > 0))) {
         throw new CurbfitError(
           "BAD_OPTION",
-          `weight ${q + 1} is ${g}, but every weight must be a finite number > 0`,
-          "Give one positive weight per design column",
+          `weight ${q + 1} is ${g}, but every weight must be a finite number ` +
+            (sparse ? ">= 0 (0 leaves that column unpenalized)" : "> 0"),
+          sparse
+            ? "Give one weight >= 0 per design column"
+            : "Give one positive weight per design column",
           { option: `penalty.weights[${q}]` },
         );
       }
     });
-  } else if (!["equal", "rising", "falling"].includes(weights)) {
+    if (sparse && weights.length > 0 && !weights.some((g) => g > 0)) {
+      throw new CurbfitError(
+        "BAD_OPTION",
+        `every weight of the ${kind} penalty is 0, so no column would be penalized and α ` +
+          "would have nothing to act on",
+        "Give at least one weight > 0; for a fit without any penalty use ridge() with lambda 0",
+        { option: "penalty.weights" },
+      );
+    }
+    return { weights: Object.freeze([...weights]), exponent };
+  }
+  if (!(["equal", "rising", "falling"] as unknown[]).includes(weights)) {
     throw new CurbfitError(
       "BAD_OPTION",
       `weights is ${JSON.stringify(weights)}`,
-      'Use "equal", "rising", "falling" or an array of positive numbers',
+      `Use "equal", "rising", "falling" or an array of ${
+        sparse ? "numbers >= 0" : "positive numbers"
+      }`,
       { option: "penalty.weights" },
     );
   }
-  return Object.freeze({
-    kind: "ridge",
-    weights: typeof weights === "string" ? weights : Object.freeze([...weights]),
-    exponent,
-  });
+  return { weights, exponent };
 }
 
 /**
- * γ_q for each design column, given the columns' polynomial orders (all 1 for a sparse
- * penalty, which weighs every column alike).
+ * γ_q for each design column, given the columns' polynomial orders: the penalty's weights
+ * resolved per column, the same way for every penalty (a lasso or elastic net without weights
+ * has every γ_q = 1).
  *
  * @example
  * ```ts
  * import { penaltyWeights, ridge } from "./penalty.ts";
+ * import { lasso } from "../sparse/mod.ts";
  * console.log(penaltyWeights(ridge({ weights: "rising" }), [1, 2, 3])); // Float64Array [1, 2, 3]
+ * console.log(penaltyWeights(lasso({ weights: "rising", exponent: 2 }), [1, 2, 3])); // [1, 4, 9]
  * ```
  */
 export function penaltyWeights(penalty: Penalty, orders: readonly number[]): Float64Array {
-  if (isSparse(penalty)) return new Float64Array(orders.length).fill(1);
-  const { weights, exponent } = penalty;
+  if (isSparse(penalty) && penalty.weights === undefined) {
+    return new Float64Array(orders.length).fill(1);
+  }
+  const { weights, exponent } = isSparse(penalty) ? checkedWeights(penalty, penalty.kind) : penalty;
   if (typeof weights !== "string") {
     if (weights.length !== orders.length) {
       throw new CurbfitError(
@@ -108,7 +155,8 @@ export type Penalty = RidgePenalty | SparsePenalty;
 /**
  * Which strength convention a number is on: `"lambda"` is the ridge λ in sum-of-squares units
  * (Σ residual² + λ Σ γ_q w*_q²); `"alpha"` is the sparse α in the 1/(2N) convention
- * ((1/(2N)) Σ residual² + α[ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖²]). The two are never interchangeable.
+ * ((1/(2N)) Σ residual² + α Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²], every γ_q = 1 unless weights
+ * are given). The two are never interchangeable.
  */
 export type StrengthScale = "lambda" | "alpha";
 
@@ -153,26 +201,36 @@ export function strengthSymbol(scale: StrengthScale): "λ" | "α" {
 }
 
 /**
- * The fitted objective in words and symbols, exactly as the solver minimizes it.
+ * The fitted objective in words and symbols, exactly as the solver minimizes it. A lasso or
+ * elastic net with per-column weights reads
+ * `(1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²]`; without weights
+ * (every γ_q = 1) the γ_q are left out.
  *
  * @example
  * ```ts
  * import { objectiveText, ridge } from "./penalty.ts";
- * import { elasticNet } from "../sparse/mod.ts";
+ * import { elasticNet, lasso } from "../sparse/mod.ts";
  * console.log(objectiveText(ridge()));
  * console.log(objectiveText(elasticNet({ mix: 0.5 })));
+ * console.log(objectiveText(lasso({ weights: [0, 1, 1] }))); // … + α Σ_q γ_q |w*_q| …
  * ```
  */
 export function objectiveText(penalty: Penalty): string {
   if (!isSparse(penalty)) {
     return "minimize Σᵢ (yᵢ − b − zᵢᵀw)² + λ Σ_q γ_q w*_q² (λ in sum-of-squares units)";
   }
+  const weighted = penalty.weights !== undefined && penalty.weights !== "equal";
   const rho = penalty.kind === "lasso" ? "" : ` with ρ = ${penalty.mix}`;
   const term = penalty.kind === "lasso"
-    ? "α Σ_q |w*_q|"
+    ? (weighted ? "α Σ_q γ_q |w*_q|" : "α Σ_q |w*_q|")
+    : weighted
+    ? "α Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²]"
     : "α [ρ Σ_q |w*_q| + ((1 − ρ)/2) Σ_q w*_q²]";
-  return `minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + ${term}${rho} (α in the 1/(2N) convention; ` +
-    "not the ridge λ)";
+  const gamma = weighted
+    ? "; γ_q ≥ 0 per design column (see gamma), γ_q = 0 leaves column q unpenalized"
+    : "";
+  return `minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + ${term}${rho}${gamma} (α in the 1/(2N) ` +
+    "convention; not the ridge λ)";
 }
 
 /** The strength options of each convention, for messages. */

@@ -2,17 +2,19 @@
  * The all-rows lasso / elastic-net model as a FitSummary.
  *
  * Objective (1/(2N) convention, standardized coefficients w*_q = s_q w_q, intercept b
- * unpenalized; lib/sparse/penalty.ts):
- *   minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α·[ ρ Σ_q |w*_q| + ((1 − ρ)/2) Σ_q w*_q² ].
+ * unpenalized, per-column weights γ_q ≥ 0 resolved per design column like ridge's, every γ_q = 1
+ * without weights; lib/sparse/penalty.ts):
+ *   minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α Σ_q γ_q [ ρ |w*_q| + ((1 − ρ)/2) w*_q² ].
  * α is not the ridge λ (sum-of-squares units): the summary says which with `scale: "alpha"`.
  * The solution comes from coordinate descent on the Gram form of the rows' summary, stopped at
  * a scaled KKT violation ≤ `tolerance` (lib/sparse/descent.ts); the exact QR solver with
  * iterative refinement is for quadratic penalties only, so there is no exact refit here.
  *
- * Reported: `budget` = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (the penalty's value per unit α; ‖w*‖₁ for the
- * lasso); `nonzero`, the count of nonzero coefficients; `df`, the effective degrees of freedom
- * Σ_j μ_j/(μ_j + α(1 − ρ)) over the eigenvalues μ_j of the active block of the standardized Gram
- * matrix, i.e. tr[Z_A (Z_AᵀZ_A + N·α·(1 − ρ)·I)⁻¹ Z_Aᵀ] (lib/sparse/df.ts derives it in this
+ * Reported: `budget` = Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] (the penalty's value per unit α;
+ * ‖w*‖₁ for the unweighted lasso); `gamma`, the γ_q used; `nonzero`, the count of nonzero
+ * coefficients; `df`, the effective degrees of freedom tr[Z_A (Z_AᵀZ_A + N·α·(1 − ρ)·Γ_A)⁻¹ Z_Aᵀ]
+ * (Γ = diag(γ); with equal weights Σ_j μ_j/(μ_j + α(1 − ρ)) over the eigenvalues μ_j of the
+ * active block of the standardized Gram matrix; lib/sparse/df.ts derives it in this
  * convention). For the lasso it is the nonzero count (an unbiased estimate of the lasso's degrees
  * of freedom: Zou, Hastie & Tibshirani 2007, Ann. Statist. 35); for the elastic net it is below
  * the count (Zou & Hastie 2005, J. R. Statist. Soc. B 67; recalled from memory). `residualSd` =
@@ -24,15 +26,15 @@ import { deepFreeze } from "../common/freeze.ts";
 import type { Design } from "../design/types.ts";
 import type { Moments } from "../sweep/moments.ts";
 import {
+  canonicalSparse,
   gramProblem,
-  penaltyMix,
   solutionDf,
   type SparsePath,
   sparsePath,
   type SparsePenalty,
   type SparseSolution,
 } from "../sparse/mod.ts";
-import { objectiveText } from "./penalty.ts";
+import { objectiveText, penaltyWeights } from "./penalty.ts";
 import type { FitSummary } from "./fit.ts";
 
 /** What a sparse summary needs besides the solution. */
@@ -46,7 +48,8 @@ export interface SparseSummaryContext {
 
 /**
  * Solves the sparse problem on all rows of a design, from their co-moments, over the given α
- * values (solutions in decreasing α).
+ * values (solutions in decreasing α), with the penalty's weights resolved per design column
+ * (`penaltyWeights`, from the columns' orders).
  *
  * @example
  * ```ts
@@ -71,24 +74,32 @@ export function allRowsPath(
   options: { standardize: boolean; intercept: boolean; tolerance?: number },
 ): SparsePath {
   const problem = gramProblem(moments, { ...options, names: design.names, where: "rows" });
-  return sparsePath(problem, penalty, { alphas, tolerance: options.tolerance });
+  const gamma = penaltyWeights(penalty, design.orders);
+  return sparsePath(problem, penalty, { alphas, gamma, tolerance: options.tolerance });
 }
 
 /**
- * The sparse penalty's value per unit α, ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (‖w*‖₁ for the lasso).
+ * The sparse penalty's value per unit α, Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²]
+ * (ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² with every γ_q = 1, the default; ‖w*‖₁ for the unweighted lasso).
  *
  * @example
  * ```ts
  * import { penaltyValue } from "./sparse_fit.ts";
  * console.log(penaltyValue(1, [0.5, -1]), penaltyValue(0.5, [2])); // 1.5 2
+ * console.log(penaltyValue(1, [0.5, -1], [0, 2])); // 2
  * ```
  */
-export function penaltyValue(mix: number, standardized: readonly number[]): number {
+export function penaltyValue(
+  mix: number,
+  standardized: readonly number[],
+  gamma?: readonly number[],
+): number {
   let l1 = 0, l2 = 0;
-  for (const v of standardized) {
-    l1 += Math.abs(v);
-    l2 += v * v;
-  }
+  standardized.forEach((v, q) => {
+    const g = gamma === undefined ? 1 : gamma[q];
+    l1 += g * Math.abs(v);
+    l2 += g * v * v;
+  });
   return mix * l1 + ((1 - mix) / 2) * l2;
 }
 
@@ -109,8 +120,9 @@ export function sparseSummary(
   sol: SparseSolution,
   context: SparseSummaryContext,
 ): FitSummary {
-  const { design, penalty } = context;
-  const mix = penaltyMix(penalty);
+  const { design } = context;
+  const penalty = canonicalSparse(context.penalty);
+  const { mix } = penalty;
   const w = [...sol.coefficients];
   const wStd = [...sol.standardized];
   const means = path.standardize ? [...path.means] : new Array<number>(w.length).fill(0);
@@ -122,12 +134,12 @@ export function sparseSummary(
     n,
     names: [...design.names],
     orders: [...design.orders],
-    penalty: { kind: penalty.kind, mix },
+    penalty,
     scale: "alpha",
     objective: objectiveText(penalty),
-    gamma: new Array<number>(w.length).fill(1),
+    gamma: [...path.gamma],
     strength: sol.alpha,
-    budget: penaltyValue(mix, wStd),
+    budget: penaltyValue(mix, wStd, path.gamma),
     df,
     nonzero: sol.nonzero,
     intercept: sol.intercept,

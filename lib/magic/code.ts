@@ -12,7 +12,7 @@
  * @module
  */
 import type { Json, Term } from "../design/types.ts";
-import { isSparse, type Penalty } from "../fit/penalty.ts";
+import { isSparse, type Penalty, type RidgeWeights } from "../fit/penalty.ts";
 import { escapeHtml } from "../views/escape.ts";
 import { isFoldPlan } from "../sweep/folds.ts";
 import type { Job } from "./job.ts";
@@ -169,15 +169,25 @@ function termCode(spec: Json, uses: Set<string>): string {
 }
 
 function penaltyCode(p: Penalty, uses: Set<string>): string {
+  const weights = weightsCode(p.weights ?? "equal", p.exponent ?? 1);
   if (isSparse(p)) {
-    uses.add(p.kind === "lasso" ? "lasso" : "elasticNet");
-    return p.kind === "lasso" ? "lasso()" : `elasticNet({ mix: ${p.mix} })`;
+    const name = p.kind === "lasso" ? "lasso" : "elasticNet";
+    uses.add(name);
+    const fields = [...(p.kind === "lasso" ? [] : [`mix: ${p.mix}`]), ...weights];
+    return fields.length === 0 ? `${name}()` : `${name}({ ${fields.join(", ")} })`;
   }
   uses.add("ridge");
-  if (typeof p.weights !== "string") return `ridge({ weights: ${literal(p.weights, 0)} })`;
-  if (p.weights === "equal") return "ridge()";
-  const exponent = p.exponent === 1 ? "" : `, exponent: ${p.exponent}`;
-  return `ridge({ weights: ${JSON.stringify(p.weights)}${exponent} })`;
+  return weights.length === 0 ? "ridge()" : `ridge({ ${weights.join(", ")} })`;
+}
+
+/** The `weights` (and `exponent`, when not 1) fields of a penalty call; none for equal weights. */
+function weightsCode(weights: RidgeWeights, exponent: number): string[] {
+  if (typeof weights !== "string") return [`weights: ${literal(weights, 0)}`];
+  if (weights === "equal") return [];
+  return [
+    `weights: ${JSON.stringify(weights)}`,
+    ...(exponent === 1 ? [] : [`exponent: ${exponent}`]),
+  ];
 }
 
 /** A JavaScript literal, on one line when it fits within WIDTH at `indent`, else broken. */

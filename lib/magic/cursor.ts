@@ -142,15 +142,7 @@ export class Cursor {
 
   /** Runs `make`; a CurbfitError it throws is re-thrown pointing at `spot`. */
   build<T>(spot: Spot, make: () => T): T {
-    try {
-      return make();
-    } catch (e) {
-      if (!(e instanceof CurbfitError) || e instanceof MagicError) throw e;
-      const what = e.message.endsWith(` ${e.hint}`)
-        ? e.message.slice(0, -e.hint.length - 2)
-        : e.message;
-      throw new MagicError(e.code, what, e.hint, spot, this.line.text);
-    }
+    return buildAt(spot, this.line.text, make);
   }
 
   /** The next token, which must be one of the words `accepted`. */
@@ -232,5 +224,32 @@ export class Cursor {
       "the end of the line",
       `The "${statement}" statement is complete here; put each statement on its own line`,
     );
+  }
+}
+
+/**
+ * Runs `make`; a CurbfitError it throws (other than a MagicError) is re-thrown as a MagicError
+ * pointing at `spot` of the line `lineText`, for checks made after that line was read.
+ *
+ * @example
+ * ```ts
+ * import { buildAt } from "./cursor.ts";
+ * import { ridge } from "../fit/penalty.ts";
+ * try {
+ *   buildAt({ line: 4, column: 7, length: 4 }, "gamma 0, 1", () => ridge({ weights: [0, 1] }));
+ * } catch (e) {
+ *   console.log((e as Error).message); // … line 4, column 7: weight 1 is 0 …
+ * }
+ * ```
+ */
+export function buildAt<T>(spot: Spot, lineText: string, make: () => T): T {
+  try {
+    return make();
+  } catch (e) {
+    if (!(e instanceof CurbfitError) || e instanceof MagicError) throw e;
+    const what = e.message.endsWith(` ${e.hint}`)
+      ? e.message.slice(0, -e.hint.length - 2)
+      : e.message;
+    throw new MagicError(e.code, what, e.hint, spot, lineText);
   }
 }

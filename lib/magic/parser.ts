@@ -18,7 +18,7 @@ import type { SelectionRule } from "../sweep/select.ts";
 import { type FoldRequest, isFoldPlan } from "../sweep/folds.ts";
 import { MagicError, type Spot } from "./error.ts";
 import { lexTemplate, type SourceLine } from "./lexer.ts";
-import { Cursor, describeValue, type Named, spanOf } from "./cursor.ts";
+import { buildAt, Cursor, describeValue, type Named, spanOf } from "./cursor.ts";
 import { listWords, nearestWord } from "./words.ts";
 import { separatorProblem } from "../table/separator.ts";
 
@@ -154,7 +154,11 @@ export interface FoldsNode {
 export interface Settings {
   /** Terms from every `terms` line of the section, in order. */
   readonly terms?: readonly TermNode[];
-  /** From the `penalty` and `gamma` lines: lasso, elastic net, or ridge with its γ weights. */
+  /**
+   * From the `penalty` and `gamma` lines: ridge, lasso or elastic net with its γ weights. In a
+   * candidate, a `penalty` line alone keeps the shared `gamma` line and a `gamma` line alone
+   * keeps the shared penalty.
+   */
   readonly penalty?: Penalty;
   /** The ridge λ grid of the `lambda` line. */
   readonly lambdas?: LambdaGrid;
@@ -230,7 +234,13 @@ interface Section {
   readonly seen: Map<Statement, number>;
   terms?: TermNode[];
   penaltyNamed?: { readonly kind: Penalty["kind"]; readonly mix?: number; readonly spot: Spot };
-  gamma?: { readonly weights: RidgeWeights; readonly exponent?: number; readonly spot: Spot };
+  gamma?: {
+    readonly weights: RidgeWeights;
+    readonly exponent?: number;
+    readonly spot: Spot;
+    /** The text of the gamma line, for errors found once the penalty is known. */
+    readonly text: string;
+  };
   lambdas?: LambdaGrid;
   alphas?: AlphaGrid;
   rule?: SelectionRule;
@@ -360,7 +370,7 @@ export function parseTemplate(
     candidates: candidates.map((s) => ({
       name: s.candidate!.name,
       spot: s.candidate!.spot,
-      settings: settingsOf(s),
+      settings: settingsOf(s, shared),
     })),
   };
 }
@@ -616,34 +626,26 @@ function readGamma(c: Cursor): NonNullable<Section["gamma"]> {
     weights = list.values;
     spot = list.spot;
   }
-  c.build(spot, () => ridge(exponent === undefined ? { weights } : { weights, exponent }));
-  return { weights, ...(exponent === undefined ? {} : { exponent }), spot };
+  // Checked once the section's penalty is known (penaltyOf): ridge takes weights > 0, the
+  // sparse penalties weights >= 0; errors still point here.
+  return { weights, ...(exponent === undefined ? {} : { exponent }), spot, text: c.line.text };
 }
 
 /**
- * Within one section: γ and λ belong to ridge, α to lasso / elastic net. A mix is an error at
- * the line that makes it (across sections, the API reports it naming the option).
+ * Within one section: λ belongs to ridge, α to lasso / elastic net (γ weights serve both). A mix
+ * is an error at the line that makes it (across sections, the API reports it naming the option).
  */
 function checkPairing(c: Cursor, s: Section, spot: Spot): void {
-  const kind = s.penaltyNamed?.kind ?? (s.alphas !== undefined ? undefined : "ridge");
-  const sparse = kind === "lasso" || kind === "elastic-net";
-  if (sparse && (s.gamma !== undefined || s.lambdas !== undefined)) {
+  const kind = s.penaltyNamed?.kind;
+  if ((kind === "lasso" || kind === "elastic-net") && s.lambdas !== undefined) {
     throw c.error(
-      `${s.gamma !== undefined ? "γ weights" : "a λ grid"} and a ${kind} penalty are in the ` +
-        "same section, but γ and λ belong to ridge",
+      `a λ grid and a ${kind} penalty are in the same section, but λ belongs to ridge`,
       'Give the sparse strength on an "alpha" line (1/(2N) convention), or use "penalty ridge"',
       spot,
     );
   }
-  if (
-    s.alphas !== undefined && (s.gamma !== undefined || s.lambdas !== undefined ||
-      s.penaltyNamed?.kind === "ridge")
-  ) {
-    const ridgeSide = s.lambdas !== undefined
-      ? "a λ grid"
-      : s.gamma !== undefined
-      ? "γ weights"
-      : "a ridge penalty";
+  if (s.alphas !== undefined && (s.lambdas !== undefined || kind === "ridge")) {
+    const ridgeSide = s.lambdas !== undefined ? "a λ grid" : "a ridge penalty";
     throw c.error(
       `an α grid and ${ridgeSide} are in the same section, but α belongs to lasso and elastic ` +
         "net",
@@ -654,8 +656,9 @@ function checkPairing(c: Cursor, s: Section, spot: Spot): void {
   }
 }
 
-const PENALTY_HINT = '"ridge" (λ Σ γ_q w*_q², sum-of-squares units; γ on a "gamma" line), ' +
-  '"lasso" or "elastic-net [mix ρ]" (α-scaled, 1/(2N) convention; strength on an "alpha" line)';
+const PENALTY_HINT = '"ridge" (λ Σ γ_q w*_q², sum-of-squares units), "lasso" or ' +
+  '"elastic-net [mix ρ]" (α-scaled, 1/(2N) convention; strength on an "alpha" line); γ ' +
+  'weights for any of them on a "gamma" line';
 
 function readPenalty(c: Cursor): NonNullable<Section["penaltyNamed"]> {
   const spot = c.peek()?.spot;
@@ -939,21 +942,16 @@ function missing(last: SourceLine, spot: Spot, statement: Statement, hint: strin
   );
 }
 
-function settingsOf(s: Section): Settings {
-  const named = s.penaltyNamed;
-  const penalty = named?.kind === "lasso"
-    ? lasso()
-    : named?.kind === "elastic-net"
-    ? elasticNet(named.mix === undefined ? {} : { mix: named.mix })
-    : named || s.gamma !== undefined
-    ? ridge(
-      s.gamma === undefined
-        ? {}
-        : s.gamma.exponent === undefined
-        ? { weights: s.gamma.weights }
-        : { weights: s.gamma.weights, exponent: s.gamma.exponent },
-    )
-    : undefined;
+/**
+ * The settings a section says. A candidate's penalty is put together line by line: its own
+ * `penalty` and `gamma` lines, each missing one taken from the shared section (so a candidate's
+ * `penalty lasso` keeps a shared `gamma` line, and its `gamma` line keeps a shared penalty).
+ */
+function settingsOf(s: Section, shared?: Section): Settings {
+  const own = s.penaltyNamed !== undefined || s.gamma !== undefined;
+  const named = s.penaltyNamed ?? (own ? shared?.penaltyNamed : undefined);
+  const gamma = s.gamma ?? (own ? shared?.gamma : undefined);
+  const penalty = own ? penaltyOf(named, gamma) : undefined;
   const out: Record<string, unknown> = {
     terms: s.terms,
     penalty,
@@ -966,4 +964,20 @@ function settingsOf(s: Section): Settings {
   };
   for (const key of Object.keys(out)) if (out[key] === undefined) delete out[key];
   return out as Settings;
+}
+
+/** The penalty of a `penalty` line and a `gamma` line (either may be absent; ridge by default). */
+function penaltyOf(named: Section["penaltyNamed"], gamma: Section["gamma"]): Penalty {
+  const weights = gamma === undefined
+    ? {}
+    : gamma.exponent === undefined
+    ? { weights: gamma.weights }
+    : { weights: gamma.weights, exponent: gamma.exponent };
+  const make = () =>
+    named?.kind === "lasso"
+      ? lasso(weights)
+      : named?.kind === "elastic-net"
+      ? elasticNet({ ...(named.mix === undefined ? {} : { mix: named.mix }), ...weights })
+      : ridge(weights);
+  return gamma === undefined ? make() : buildAt(gamma.spot, gamma.text, make);
 }

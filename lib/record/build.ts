@@ -34,7 +34,7 @@ import {
   objectiveLines,
   ruleDefinition,
   SPARSE_COMPARISON_CRITERION,
-  SPARSE_CV_DEFINITIONS,
+  sparseCvDefinitions,
   sparseObjectiveLines,
 } from "./texts.ts";
 import config from "../../deno.json" with { type: "json" };
@@ -258,7 +258,16 @@ function sparseModelSection(
     terms: termSections(s),
     standardize: s.standardize,
     intercept: s.intercept,
-    penalty: { kind: penalty.kind, mix: penalty.mix, tolerance: descent.tolerance },
+    penalty: {
+      kind: penalty.kind,
+      mix: penalty.mix,
+      ...(penalty.weights === undefined || penalty.weights === "equal" ? {} : {
+        weights: typeof penalty.weights === "string" ? penalty.weights : [...penalty.weights],
+        exponent: penalty.exponent ?? 1,
+        gamma: [...s.gamma],
+      }),
+      tolerance: descent.tolerance,
+    },
     objective: sparseObjectiveLines(penalty, s.standardize, s.intercept),
     grid: {
       kind: Array.isArray(request) ? "explicit" : "automatic",
@@ -269,7 +278,7 @@ function sparseModelSection(
       values: column((c) => c.strength),
     },
     cv: {
-      definitions: [...SPARSE_CV_DEFINITIONS],
+      definitions: sparseCvDefinitions(penalty),
       alpha: column((c) => c.strength),
       cvMean: column((c) => c.cvMean),
       cvSe: column((c) => c.cvSe),

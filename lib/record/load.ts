@@ -27,7 +27,7 @@ import {
   type ModelSection,
   type SparseModelSection,
 } from "./schema.ts";
-import { elasticNet, lasso } from "../sparse/mod.ts";
+import { elasticNet, lasso, type SparsePenalty } from "../sparse/mod.ts";
 
 /**
  * One loaded model.
@@ -170,17 +170,14 @@ function sparseSummary(
   common: Pick<FitSummary, "target" | "n" | "names" | "orders">,
   scaled: Omit<FitSummary, SummaryOwn | "target" | "n" | "names" | "orders">,
 ): FitSummary {
-  const penalty = asRecordError(
-    `${path}.penalty`,
-    () => (m.penalty.kind === "lasso" ? lasso() : elasticNet({ mix: m.penalty.mix })),
-  );
+  const penalty = asRecordError(`${path}.penalty`, () => recordedSparsePenalty(m.penalty));
   const f = m.final;
   return {
     ...common,
     penalty,
     scale: "alpha",
     objective: objectiveText(penalty),
-    gamma: f.names.map(() => 1),
+    gamma: m.penalty.gamma === undefined ? f.names.map(() => 1) : [...m.penalty.gamma],
     strength: f.alpha,
     budget: f.penaltyValue,
     df: recordedSparseDf(m),
@@ -189,6 +186,21 @@ function sparseSummary(
     refinementSteps: 0,
     descent: { ...f.descent, tolerance: m.penalty.tolerance },
   };
+}
+
+/**
+ * The penalty a sparse model section records, made again with `lasso` / `elasticNet` (its
+ * `weights` and `exponent` when recorded; every γ_q = 1 without them).
+ *
+ * @example
+ * ```ts
+ * import { recordedSparsePenalty } from "./load.ts";
+ * console.log(recordedSparsePenalty({ kind: "lasso", mix: 1, weights: "rising", exponent: 2, tolerance: 1e-7 }));
+ * ```
+ */
+export function recordedSparsePenalty(p: SparseModelSection["penalty"]): SparsePenalty {
+  const weights = p.weights === undefined ? {} : { weights: p.weights, exponent: p.exponent };
+  return p.kind === "lasso" ? lasso(weights) : elasticNet({ mix: p.mix, ...weights });
 }
 
 /**

@@ -289,18 +289,13 @@ function sparseModel(v: unknown, path: string): SparseModelSection {
     "choice",
     "final",
   ]);
-  const p = fields(o.penalty, `${path}.penalty`, ["kind", "mix", "tolerance"]);
   const g = fields(o.grid, `${path}.grid`, ["kind", "request", "values"]);
   return {
     name: nullable(o.name, `${path}.name`, text),
     terms: list(o.terms, `${path}.terms`, term),
     standardize: flag(o.standardize, `${path}.standardize`),
     intercept: flag(o.intercept, `${path}.intercept`),
-    penalty: {
-      kind: oneOf(p.kind, `${path}.penalty.kind`, SPARSE_KINDS),
-      mix: num(p.mix, `${path}.penalty.mix`),
-      tolerance: num(p.tolerance, `${path}.penalty.tolerance`),
-    },
+    penalty: sparsePenalty(o.penalty, `${path}.penalty`),
     objective: list(o.objective, `${path}.objective`, text),
     grid: {
       kind: oneOf(g.kind, `${path}.grid.kind`, ["automatic", "explicit"] as const),
@@ -316,6 +311,41 @@ function sparseModel(v: unknown, path: string): SparseModelSection {
     cv: sparseCv(o.cv, `${path}.cv`),
     choice: sparseChoice(o.choice, `${path}.choice`),
     final: sparseFinal(o.final, `${path}.final`),
+  };
+}
+
+/**
+ * A sparse penalty section: kind, mix, then `weights`, `exponent` and `gamma` together when the
+ * weights are not all 1 (absent in records of unweighted penalties), then tolerance.
+ */
+function sparsePenalty(v: unknown, path: string): SparseModelSection["penalty"] {
+  const weighted = isObject(v) && "weights" in v;
+  const o = fields(
+    v,
+    path,
+    weighted
+      ? ["kind", "mix", "weights", "exponent", "gamma", "tolerance"]
+      : ["kind", "mix", "tolerance"],
+  );
+  const kind = oneOf(o.kind, `${path}.kind`, SPARSE_KINDS);
+  const mix = num(o.mix, `${path}.mix`);
+  const tolerance = num(o.tolerance, `${path}.tolerance`);
+  if (!weighted) return { kind, mix, tolerance };
+  if (o.weights === "equal") {
+    throw bad(
+      `${path}.weights`,
+      'is "equal", but equal weights are written by leaving weights out',
+    );
+  }
+  return {
+    kind,
+    mix,
+    weights: Array.isArray(o.weights)
+      ? list(o.weights, `${path}.weights`, num)
+      : oneOf(o.weights, `${path}.weights`, ["rising", "falling"] as const),
+    exponent: num(o.exponent, `${path}.exponent`),
+    gamma: list(o.gamma, `${path}.gamma`, num),
+    tolerance,
   };
 }
 
@@ -602,7 +632,7 @@ function checkModel(m: ModelSection, path: string, single: boolean): void {
   const p = outputs.length;
   for (
     const [key, v] of [
-      ...(isSparseModel(m) ? [] : [["penalty.gamma", m.penalty.gamma] as const]),
+      ...(m.penalty.gamma === undefined ? [] : [["penalty.gamma", m.penalty.gamma] as const]),
       ["final.coefficients", m.final.coefficients],
       ["final.standardized.coefficients", m.final.standardized.coefficients],
       ["final.means", m.final.means],

@@ -336,12 +336,16 @@ export interface RidgeModelSection {
 }
 
 /**
- * A lasso / elastic-net penalty: its family, L1 share ρ and the solver's stopping tolerance.
+ * A lasso / elastic-net penalty: its family, L1 share ρ, per-column weights when they are not
+ * all 1, and the solver's stopping tolerance. `weights`, `exponent` and `gamma` are present
+ * together or not at all; absent, every γ_q is 1 (records written before weights existed, and
+ * every record of an unweighted penalty, which stays byte for byte as it was).
  *
  * @example
  * ```ts
  * import type { SparsePenaltySection } from "./schema.ts";
  * const isLasso = (p: SparsePenaltySection) => p.mix === 1;
+ * const unpenalized = (p: SparsePenaltySection) => (p.gamma ?? []).filter((g) => g === 0).length;
  * ```
  */
 export interface SparsePenaltySection {
@@ -349,6 +353,12 @@ export interface SparsePenaltySection {
   readonly kind: "lasso" | "elastic-net";
   /** ρ, the L1 share of the penalty (1 for the lasso). */
   readonly mix: number;
+  /** How γ was chosen: "rising", "falling" or one weight ≥ 0 per column; absent: all 1. */
+  readonly weights?: "rising" | "falling" | readonly number[];
+  /** Exponent of "rising" / "falling" weights; present with `weights`. */
+  readonly exponent?: number;
+  /** γ_q ≥ 0 per design column (0: unpenalized); present with `weights`. */
+  readonly gamma?: readonly number[];
   /** Largest scaled KKT violation the coordinate-descent solver accepted (lib/sparse/descent.ts). */
   readonly tolerance: number;
 }
@@ -395,7 +405,7 @@ export interface SparseCvSection {
   readonly foldTrainMse: readonly number[];
   /** Nonzero coefficients of the all-rows fit. */
   readonly nonzero: readonly number[];
-  /** ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² of the all-rows fit (the penalty per unit α). */
+  /** Σ γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] of the all-rows fit (the penalty per unit α). */
   readonly penaltyValue: readonly number[];
   /** Per α: validation MSE of every fold, repeat-major. */
   readonly foldMse: readonly (readonly number[])[];
@@ -441,7 +451,7 @@ export interface SparseFinalSection {
   readonly n: number;
   /** The chosen α. */
   readonly alpha: number;
-  /** ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² of the solution. */
+  /** Σ γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] of the solution. */
   readonly penaltyValue: number;
   /** Nonzero coefficients (intercept not counted). */
   readonly nonzero: number;

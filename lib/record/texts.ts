@@ -42,12 +42,15 @@ export function objectiveLines(
 
 /**
  * The objective of one lasso / elastic-net model, one statement per line (the 1/(2N)
- * convention of lib/sparse/penalty.ts), with the solver and its stopping rule.
+ * convention of lib/sparse/penalty.ts), with the solver and its stopping rule. With per-column
+ * weights the penalty reads α Σ_q γ_q [ρ |s_q w_q| + ((1 − ρ)/2) (s_q w_q)²] and a line says
+ * how γ was chosen; without them the lines are those of records written before weights existed.
  *
  * @example
  * ```ts
  * import { sparseObjectiveLines } from "./texts.ts";
  * console.log(sparseObjectiveLines({ kind: "lasso", mix: 1 }, true, true)[0]);
+ * console.log(sparseObjectiveLines({ kind: "lasso", mix: 1, weights: [0, 1] }, true, true)[0]);
  * ```
  */
 export function sparseObjectiveLines(
@@ -55,8 +58,11 @@ export function sparseObjectiveLines(
   standardize: boolean,
   intercept: boolean,
 ): string[] {
+  const weighted = isWeighted(penalty);
   return [
-    "minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α [ρ Σ_q |s_q w_q| + ((1 − ρ)/2) Σ_q (s_q w_q)²] " +
+    (weighted
+      ? "minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α Σ_q γ_q [ρ |s_q w_q| + ((1 − ρ)/2) (s_q w_q)²] "
+      : "minimize (1/(2N)) Σᵢ (yᵢ − b − zᵢᵀw)² + α [ρ Σ_q |s_q w_q| + ((1 − ρ)/2) Σ_q (s_q w_q)²] ") +
     "over b and w",
     "zᵢ: row i of the design (the terms' output columns, final.names); w_q: coefficient of " +
     "column q on the original scale; N: the number of training rows",
@@ -66,14 +72,31 @@ export function sparseObjectiveLines(
       : "s_q = 1 (standardize: false): the penalty acts on the original-scale coefficients",
     intercept ? "b: the intercept, never penalized" : "b = 0 (intercept: false)",
     penalty.kind === "lasso"
-      ? "ρ = 1 (lasso): the penalty is α Σ_q |s_q w_q|"
+      ? `ρ = 1 (lasso): the penalty is α Σ_q ${weighted ? "γ_q " : ""}|s_q w_q|`
       : `ρ = ${penalty.mix} (elastic net): the L1 share of the penalty`,
+    ...(weighted ? [sparseGammaLine(penalty)] : []),
     "α > 0 in the 1/(2N) convention common to coordinate-descent solvers; it is not the ridge λ " +
     "(the quadratic part alone is ridge with λ = N·α·(1 − ρ))",
     "solved by cyclic coordinate descent with covariance updates (Friedman, Hastie & Tibshirani " +
     "2010), warm-started along the decreasing α path, stopped when every column's scaled KKT " +
     "violation is at most penalty.tolerance; final.descent reports the violation and the duality gap",
   ];
+}
+
+/** Whether a sparse penalty has weights other than all 1. */
+function isWeighted(penalty: SparsePenalty): boolean {
+  return penalty.weights !== undefined && penalty.weights !== "equal";
+}
+
+/** How γ was chosen for a weighted sparse penalty, and what γ_q = 0 means. */
+function sparseGammaLine(penalty: SparsePenalty): string {
+  const { weights, exponent = 1 } = penalty;
+  const chosen = typeof weights !== "string"
+    ? "γ_q ≥ 0: given per design column (penalty.gamma)"
+    : weights === "rising"
+    ? `γ_q = order_q^${exponent} (penalty.gamma): higher polynomial orders are penalized more`
+    : `γ_q = order_q^(−${exponent}) (penalty.gamma): lower polynomial orders are penalized more`;
+  return `${chosen}; a column with γ_q = 0 is unpenalized and in the model at every α`;
 }
 
 function gammaLine(penalty: RidgePenalty): string {
@@ -131,6 +154,30 @@ export const SPARSE_CV_DEFINITIONS: readonly string[] = Object.freeze([
   "path[l]: standardized coefficients s_q w_q of the all-rows fit at α = alpha[l], in " +
   "final.names order",
 ]);
+
+/**
+ * What each column of a sparse model's CV table means, for its penalty: SPARSE_CV_DEFINITIONS,
+ * with the penalty value written with γ_q when the penalty has weights.
+ *
+ * @example
+ * ```ts
+ * import { SPARSE_CV_DEFINITIONS, sparseCvDefinitions } from "./texts.ts";
+ * console.log(sparseCvDefinitions({ kind: "lasso", mix: 1 })[3] === SPARSE_CV_DEFINITIONS[3]); // true
+ * ```
+ */
+export function sparseCvDefinitions(penalty: SparsePenalty): string[] {
+  if (!isWeighted(penalty)) return [...SPARSE_CV_DEFINITIONS];
+  return SPARSE_CV_DEFINITIONS.map((line, i) =>
+    i === PENALTY_VALUE_LINE
+      ? "nonzero: number of nonzero coefficients of the all-rows fit (intercept not counted); " +
+        "penaltyValue: Σ_q γ_q [ρ |s_q w_q| + ((1 − ρ)/2) (s_q w_q)²] of the all-rows fit " +
+        "(γ_q: penalty.gamma)"
+      : line
+  );
+}
+
+/** Index of the line of SPARSE_CV_DEFINITIONS that defines penaltyValue. */
+const PENALTY_VALUE_LINE = 3;
 
 /**
  * The rule in words.

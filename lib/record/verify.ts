@@ -8,8 +8,9 @@
  *    column (or the recorded assignment, for plans that cannot be rebuilt), and its
  *    assignment SHA-256 (exact).
  * 3. Models: the sweep (or comparison) run again on `data` with the recorded terms, penalty,
- *    standardization, intercept, grid, rule and rebuilt folds (lasso / elastic net: ρ and the
- *    solver tolerance too); every computed field compared (numbers at relative 1e-9, integers
+ *    standardization, intercept, grid, rule and rebuilt folds (lasso / elastic net: ρ, the
+ *    recorded weights and the solver tolerance too; γ, present only with weights, is compared
+ *    as numbers); every computed field compared (numbers at relative 1e-9, integers
  *    and text exactly). Sparse replays are bit-identical on the same software (the solver's
  *    passes repeat exactly), so 1e-9 holds for them too (lib/record/README.md).
  *
@@ -26,7 +27,6 @@ import { separatorName } from "../table/separator.ts";
 import { termFromSpec } from "../design/mod.ts";
 import type { TableInput } from "../fit/fit.ts";
 import { ridge } from "../fit/penalty.ts";
-import { elasticNet, lasso } from "../sparse/mod.ts";
 import {
   assignmentDigest,
   explicitPlan,
@@ -52,8 +52,10 @@ import {
   type ModelSection,
   modelStrengths,
   type RidgeModelSection,
+  type SparsePenaltySection,
   standingStrength,
 } from "./schema.ts";
+import { recordedSparsePenalty } from "./load.ts";
 import { CAUTIONS } from "./texts.ts";
 import { Checks, type VerifyEntry } from "./checks.ts";
 import { type VerifyReport, verifyReport } from "./report.ts";
@@ -230,7 +232,7 @@ function modelSpec(m: ModelSection, target: string): SweepSpec {
     return {
       target,
       terms,
-      penalty: m.penalty.kind === "lasso" ? lasso() : elasticNet({ mix: m.penalty.mix }),
+      penalty: recordedSparsePenalty(m.penalty),
       tolerance: m.penalty.tolerance,
       standardize: m.standardize,
       intercept: m.intercept,
@@ -279,7 +281,15 @@ function checkModel(checks: Checks, at: string, rec: ModelSection, now: ModelSec
   });
   if (!isSparseModel(rec) && !isSparseModel(now)) {
     checks.numbers(`${at}.penalty.gamma`, rec.penalty.gamma, now.penalty.gamma, "each", column);
-  } else checks.exact(`${at}.penalty`, rec.penalty, now.penalty);
+  } else {
+    // the settings exactly; recorded weights γ (present only with weights) as numbers, like ridge's
+    const { gamma: recGamma, ...recSettings } = rec.penalty as SparsePenaltySection;
+    const { gamma: nowGamma, ...nowSettings } = now.penalty as SparsePenaltySection;
+    checks.exact(`${at}.penalty`, recSettings, nowSettings);
+    if (recGamma !== undefined || nowGamma !== undefined) {
+      checks.numbers(`${at}.penalty.gamma`, recGamma ?? [], nowGamma ?? [], "each", column);
+    }
+  }
   checks.exact(`${at}.objective`, rec.objective, now.objective);
   checks.numbers(`${at}.grid.values`, rec.grid.values, now.grid.values, "each", strengthAt);
   checks.exact(`${at}.cv.definitions`, rec.cv.definitions, now.cv.definitions);

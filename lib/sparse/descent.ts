@@ -1,29 +1,34 @@
 /**
  * Cyclic coordinate descent for one α on a Gram problem (G, c, v_y; see gram.ts), warm-started
- * from the previous α's solution. With a = αρ and β = α(1 − ρ), the objective in standardized
- * coefficients w is
- *   P(w) = ½ (v_y − 2cᵀw + wᵀGw) + a‖w‖₁ + ½ β‖w‖².
+ * from the previous α's solution. With per-column weights γ_j ≥ 0 (penalty.ts; all 1 without
+ * weights), a_j = αργ_j and β_j = α(1 − ρ)γ_j, the objective in standardized coefficients w is
+ *   P(w) = ½ (v_y − 2cᵀw + wᵀGw) + Σ_j a_j |w_j| + ½ Σ_j β_j w_j².
  * The solver keeps the gradient residuals g = c − Gw ("covariance updates", Friedman, Hastie &
  * Tibshirani 2010, J. Stat. Softw. 33, §2.2); the update of coordinate j is
- *   w_j ← S(g_j + G_jj w_j, a) / (G_jj + β),   S(z, a) = sign(z)·max(|z| − a, 0),
- * and a change δ in w_j costs g_k −= G_kj δ over the working set only.
+ *   w_j ← S(g_j + G_jj w_j, a_j) / (G_jj + β_j),   S(z, a) = sign(z)·max(|z| − a, 0),
+ * and a change δ in w_j costs g_k −= G_kj δ over the working set only. A column with γ_j = 0
+ * is updated by plain least squares (a_j = β_j = 0).
  *
  * Screening (sequential strong rule, Tibshirani, Bien, Friedman, Hastie, Simon, Taylor &
- * Tibshirani 2012, JRSS-B 74; written here in this scaling): with α₀ the previous α (≤ α_max),
- * the working set is the previous nonzeros plus every j with |g_j(α₀)| ≥ ρ(2α − α₀). The
+ * Tibshirani 2012, JRSS-B 74; written here in this scaling, the threshold of column j scaled by
+ * its weight as the same argument gives it — our derivation, not checked against the paper):
+ * with α₀ the previous α (≤ α_max), the working set is the previous nonzeros plus every j with
+ * |g_j(α₀)| ≥ ργ_j(2α − α₀) — so every unpenalized column (γ_j = 0) is always in it. The
  * working set is solved by passes over it alternating with passes over its nonzeros only
  * (active-set cycling), then g is recomputed from scratch for every column and the optimality
  * (KKT) conditions are checked over all columns; violators join the working set and the solve
  * repeats. So screening only saves work: it never changes the answer.
  *
  * Stopping rule: the KKT violation of column j,
- *   w_j ≠ 0:  |g_j − β w_j − a·sign(w_j)|,      w_j = 0:  max(|g_j| − a, 0),
+ *   w_j ≠ 0:  |g_j − β_j w_j − a_j·sign(w_j)|,      w_j = 0:  max(|g_j| − a_j, 0)
+ * (for γ_j = 0 both read |g_j|: the column's least-squares condition),
  * divided by √(G_jj v_y) (a correlation-like, unit-free number: |g_j| ≤ √(G_jj v_y) at w = 0),
  * must be at most `tolerance` for every column, with g recomputed from scratch.
  *
  * @module
  */
 import type { GramProblem } from "./gram.ts";
+import { nullSolution } from "./unpenalized.ts";
 
 /** Coefficients and gradient residuals carried along a path (mutated in place). */
 export interface DescentState {
@@ -55,7 +60,8 @@ export interface DescentOutcome {
 }
 
 /**
- * The state at α_max: w = 0, g = c.
+ * The state at α_max: every penalized coefficient 0 and the `unpenalized` columns (γ = 0) at
+ * their least-squares values (unpenalized.ts); w = 0 and g = c without unpenalized columns.
  *
  * @example
  * ```ts
@@ -66,16 +72,17 @@ export interface DescentOutcome {
  * console.log(startState(gramProblem(m), 1.2).w); // Float64Array [0]
  * ```
  */
-export function startState(problem: GramProblem, alphaMax: number): DescentState {
-  return {
-    w: new Float64Array(problem.p),
-    g: Float64Array.from(problem.covariance),
-    previousAlpha: alphaMax,
-  };
+export function startState(
+  problem: GramProblem,
+  alphaMax: number,
+  unpenalized: Int32Array = new Int32Array(0),
+): DescentState {
+  return { ...nullSolution(problem, unpenalized), previousAlpha: alphaMax };
 }
 
 /**
- * Solves at `alpha` from the state's solution, updating the state in place.
+ * Solves at `alpha` from the state's solution, updating the state in place. `gamma`: the
+ * weight γ_j ≥ 0 of every column (penalty.ts, `columnWeights`).
  *
  * @example
  * ```ts
@@ -85,7 +92,7 @@ export function startState(problem: GramProblem, alphaMax: number): DescentState
  * const [m] = bucketMoments(Float64Array.of(0, 1, 2, 3), 1, Float64Array.of(0, 1, 2, 3), new Int32Array(4), 1);
  * const g = gramProblem(m, { standardize: false });
  * const state = startState(g, 1.25);
- * descend(g, state, 0.25, 1, { tolerance: 1e-12, maxPasses: 100, screening: true });
+ * descend(g, state, 0.25, 1, Float64Array.of(1), { tolerance: 1e-12, maxPasses: 100, screening: true });
  * console.log(state.w[0]); // 0.8 = 1 − 0.25/1.25
  * ```
  */
@@ -94,16 +101,20 @@ export function descend(
   state: DescentState,
   alpha: number,
   mix: number,
+  gamma: Float64Array,
   settings: DescentSettings,
 ): DescentOutcome {
   const { p } = problem;
-  const a = alpha * mix;
-  const beta = alpha * (1 - mix);
+  const l1 = alpha * mix;
+  const l2 = alpha * (1 - mix);
+  const a = gamma.map((g) => l1 * g);
+  const beta = gamma.map((g) => l2 * g);
   const kkt = violationMeter(problem, state, a, beta);
   const member = new Uint8Array(p);
-  const bound = settings.screening ? mix * (2 * alpha - state.previousAlpha) : -Infinity;
+  const bound = mix * (2 * alpha - state.previousAlpha);
   for (let j = 0; j < p; j++) {
-    if (state.w[j] !== 0 || Math.abs(state.g[j]) >= bound) member[j] = 1;
+    const strong = !settings.screening || Math.abs(state.g[j]) >= bound * gamma[j];
+    if (state.w[j] !== 0 || strong) member[j] = 1;
   }
   let passes = 0;
   let violation = Infinity;
@@ -127,8 +138,8 @@ export function descend(
 function violationMeter(
   problem: GramProblem,
   state: DescentState,
-  a: number,
-  beta: number,
+  a: Float64Array,
+  beta: Float64Array,
 ): (j: number) => number {
   const { gram, p, targetSquare } = problem;
   const unit = Float64Array.from(
@@ -139,8 +150,8 @@ function violationMeter(
   return (j) => {
     const wj = w[j];
     const raw = wj === 0
-      ? Math.max(Math.abs(g[j]) - a, 0)
-      : Math.abs(g[j] - beta * wj - (wj > 0 ? a : -a));
+      ? Math.max(Math.abs(g[j]) - a[j], 0)
+      : Math.abs(g[j] - beta[j] * wj - (wj > 0 ? a[j] : -a[j]));
     return raw / unit[j];
   };
 }
@@ -154,8 +165,8 @@ function solveWorkingSet(
   problem: GramProblem,
   state: DescentState,
   work: Int32Array,
-  a: number,
-  beta: number,
+  a: Float64Array,
+  beta: Float64Array,
   kkt: (j: number) => number,
   settings: DescentSettings,
   used: number,
@@ -183,8 +194,8 @@ function updatePass(
   state: DescentState,
   set: Int32Array,
   work: Int32Array,
-  a: number,
-  beta: number,
+  a: Float64Array,
+  beta: Float64Array,
 ): void {
   const { gram, p } = problem;
   const { w, g } = state;
@@ -193,8 +204,9 @@ function updatePass(
     const row = j * p;
     const gjj = gram[row + j];
     const z = g[j] + gjj * w[j];
-    const shrunk = z > a ? z - a : z < -a ? z + a : 0;
-    const next = shrunk / (gjj + beta);
+    const aj = a[j];
+    const shrunk = z > aj ? z - aj : z < -aj ? z + aj : 0;
+    const next = shrunk / (gjj + beta[j]);
     const delta = next - w[j];
     if (delta === 0) continue;
     w[j] = next;

@@ -4,28 +4,40 @@
  * Derivation in the convention of this folder. Let Z be the N×p matrix of the columns the
  * penalty acts on: standardized (x_iq − x̄_q)/s_q with an intercept, x_iq/s_q without one
  * (s_q = 1 when not standardizing), so ZᵀZ = N·G with G the per-observation Gram matrix of
- * gram.ts. With an intercept, b = ȳ − x̄ᵀw and Zᵀ1 = 0. Multiplying the objective by 2N gives
- *   ‖y − b·1 − Z w*‖² + 2Nαρ ‖w*‖₁ + Nα(1 − ρ) ‖w*‖².
+ * gram.ts. With an intercept, b = ȳ − x̄ᵀw and Zᵀ1 = 0. With per-column weights γ_q ≥ 0
+ * (penalty.ts; every γ_q = 1 without weights) and Γ = diag(γ), multiplying the objective by 2N
+ * gives
+ *   ‖y − b·1 − Z w*‖² + 2Nαρ Σ_q γ_q |w*_q| + Nα(1 − ρ) Σ_q γ_q (w*_q)².
  * On the active set A = {q : w*_q ≠ 0}, with signs σ = sign(w*_A), the optimality conditions
- * read Z_Aᵀ(y − ȳ1 − Z_A w*_A) = Nαρ σ + Nα(1 − ρ) w*_A, so
- *   w*_A = (Z_AᵀZ_A + Nα(1 − ρ) I)⁻¹ (Z_Aᵀ y − Nαρ σ).
- * (Without an intercept, drop ȳ1.) Z depends on x only (x̄_q and s_q too). For almost every y,
- * A and σ do not change under a small change of y (Zou, Hastie & Tibshirani 2007, Ann. Statist.
- * 35; Tibshirani & Taylor 2012, Ann. Statist. 40 — recalled from memory), so the fitted values
- * ŷ = ȳ1 + Z_A w*_A are locally affine in y, and their divergence Σᵢ ∂ŷᵢ/∂yᵢ, whose expectation
- * is the degrees of freedom (Stein 1981, Ann. Statist. 9; recalled from memory), is 1 for the
- * intercept (not counted here, as in the ridge df and the nonzero count; absent without one)
- * plus the trace of
- *   H = Z_A (Z_AᵀZ_A + Nα(1 − ρ) I)⁻¹ Z_Aᵀ.
- * This is the elastic net's df of Zou & Hastie (2005), J. R. Statist. Soc. B 67, in their naive
- * elastic net's λ₂ = Nα(1 − ρ) (recalled from memory, not checked against the paper; our
- * coefficients are not rescaled by 1 + λ₂). With Z_AᵀZ_A = N·G_AA and μ_j the eigenvalues of G_AA:
- *   df = tr[(G_AA + βI)⁻¹ G_AA] = Σ_j μ_j / (μ_j + β),   β = α(1 − ρ).
+ * read Z_Aᵀ(y − ȳ1 − Z_A w*_A) = Nαρ Γ_A σ + Nα(1 − ρ) Γ_A w*_A, so
+ *   w*_A = (Z_AᵀZ_A + Nα(1 − ρ) Γ_A)⁻¹ (Z_Aᵀ y − Nαρ Γ_A σ).
+ * (Without an intercept, drop ȳ1.) Z depends on x only (x̄_q and s_q too), and so do γ_q. For
+ * almost every y, A and σ do not change under a small change of y (Zou, Hastie & Tibshirani
+ * 2007, Ann. Statist. 35; Tibshirani & Taylor 2012, Ann. Statist. 40 — recalled from memory),
+ * so the fitted values ŷ = ȳ1 + Z_A w*_A are locally affine in y, and their divergence
+ * Σᵢ ∂ŷᵢ/∂yᵢ, whose expectation is the degrees of freedom (Stein 1981, Ann. Statist. 9;
+ * recalled from memory), is 1 for the intercept (not counted here, as in the ridge df and the
+ * nonzero count; absent without one) plus the trace of
+ *   H = Z_A (Z_AᵀZ_A + Nα(1 − ρ) Γ_A)⁻¹ Z_Aᵀ.
+ * With Γ = I this is the elastic net's df of Zou & Hastie (2005), J. R. Statist. Soc. B 67, in
+ * their naive elastic net's λ₂ = Nα(1 − ρ) (recalled from memory, not checked against the
+ * paper; our coefficients are not rescaled by 1 + λ₂). With Z_AᵀZ_A = N·G_AA and β = α(1 − ρ):
+ *   df = tr[(G_AA + βΓ_A)⁻¹ G_AA].
+ * Computed as follows. Split A into its unpenalized columns U (γ_q = 0) and penalized ones P.
+ * Minimizing over w_U first (least squares given w_P) leaves a ridge problem in w_P on the
+ * columns with U projected out, whose Gram matrix is the Schur complement
+ * S = G_PP − G_PU G_UU⁻¹ G_UP (S = G_PP when U is empty), so H is the projection onto Z_U (trace
+ * |U|) plus a ridge hat matrix, and
+ *   df = |U| + tr[(S + βΓ_P)⁻¹ S] = |U| + Σ_j ν_j / (ν_j + β),
+ * ν_j the eigenvalues of Γ_P^{−1/2} S Γ_P^{−1/2} (similar to (S + βΓ_P)⁻¹S up to the shift:
+ * (S + βΓ_P)⁻¹S = Γ_P^{−1/2}(M + βI)⁻¹ M Γ_P^{1/2} with M = Γ_P^{−1/2} S Γ_P^{−1/2}). With equal
+ * weights this is Σ_j μ_j/(μ_j + β) over the eigenvalues μ_j of G_AA.
  * Checks of the scaling: at ρ = 1 (β = 0) it is |A|, the nonzero count, the lasso's unbiased
- * estimate (Zou, Hastie & Tibshirani 2007); for ρ → 0 with every column active it is
- * Σ μ_j/(μ_j + α), the ridge df Σ e_j/(e_j + λ) of lib/sweep/spectrum.ts at λ = N·α, because its
- * e_j are the eigenvalues of N·G. test/sparse_test.ts checks the value against the trace of H
- * formed from rows and against a finite-difference divergence of the solver's fitted values.
+ * estimate (Zou, Hastie & Tibshirani 2007), whatever the weights; for ρ → 0 with every column
+ * active it is Σ ν_j/(ν_j + α), the ridge df Σ e_j/(e_j + λ) of lib/sweep/spectrum.ts at
+ * λ = N·α, because its e_j are the eigenvalues of N·Γ^{−1/2} G Γ^{−1/2} (the same weights γ_q).
+ * test/sparse_test.ts checks the value against the trace of H formed from rows and against a
+ * finite-difference divergence of the solver's fitted values.
  *
  * For the lasso the count is returned exactly, without an eigendecomposition. It assumes the
  * active columns are linearly independent, which holds for the lasso solution when the columns
@@ -33,24 +45,28 @@
  * dependent active columns the lasso's df is the rank of
  * Z_A (Tibshirani & Taylor 2012, recalled from memory) and the count overstates it.
  *
- * Accuracy: the eigenvalues of G_AA (unit diagonal when standardized) have absolute error about
- * 10⁻¹⁶·‖G_AA‖, so each term is off by at most about 10⁻¹⁶·‖G_AA‖/β; eigenvalues that round
- * below 0 count as 0.
+ * Accuracy: the eigenvalues of M (unit diagonal when standardized with equal weights) have
+ * absolute error about 10⁻¹⁶·‖M‖, so each term is off by at most about 10⁻¹⁶·‖M‖/β; the Schur
+ * complement adds the error of the G_UU solves (unpenalized.ts bounds its condition);
+ * eigenvalues that round below 0 count as 0.
  *
  * @module
  */
 import { CurbfitError } from "../errors/error.ts";
 import { symmetricEigen } from "../numeric/eigen.ts";
 import type { GramProblem } from "./gram.ts";
+import { blockSolver } from "./unpenalized.ts";
 
 /** The df of the solution w* (standardized coefficients) at α, for one problem and ρ. */
 export type DfMeter = (alpha: number, standardized: ArrayLike<number>) => number;
 
 /**
- * A df meter for a problem and L1 share ρ: Σ_j μ_j/(μ_j + α(1 − ρ)) over the eigenvalues μ_j of
- * the active block of the Gram matrix, or the nonzero count when ρ = 1. Along a path the active
- * set often stays the same from one α to the next; the meter then reuses the last active
- * block's eigenvalues (they do not depend on α).
+ * A df meter for a problem, L1 share ρ and column weights γ (default all 1):
+ * |U| + Σ_j ν_j/(ν_j + α(1 − ρ)) over the eigenvalues ν_j of Γ_P^{−1/2} S Γ_P^{−1/2} for the
+ * active set (the module text defines U, P and S; with equal weights, the eigenvalues μ_j of the
+ * active block of the Gram matrix), or the nonzero count when ρ = 1. Along a path the active set
+ * often stays the same from one α to the next; the meter then reuses the last active set's
+ * eigenvalues (they do not depend on α).
  *
  * @example
  * ```ts
@@ -61,10 +77,16 @@ export type DfMeter = (alpha: number, standardized: ArrayLike<number>) => number
  * const [m] = bucketMoments(x, 2, y, new Int32Array(4), 1);
  * const df = dfMeter(gramProblem(m), 0.5);
  * console.log(df(0.1, [0.8, 0]), dfMeter(gramProblem(m), 1)(0.1, [0.8, 0])); // 1/(1 + 0.05) 1
+ * console.log(dfMeter(gramProblem(m), 0.5, Float64Array.of(2, 1))(0.1, [0.8, 0])); // 1/(1 + 0.1)
  * ```
  */
-export function dfMeter(problem: GramProblem, mix: number): DfMeter {
+export function dfMeter(
+  problem: GramProblem,
+  mix: number,
+  gamma: Float64Array = new Float64Array(problem.p).fill(1),
+): DfMeter {
   let key = "";
+  let free = 0;
   let eigenvalues: Float64Array = new Float64Array(0);
   return (alpha, standardized) => {
     const active: number[] = [];
@@ -73,11 +95,18 @@ export function dfMeter(problem: GramProblem, mix: number): DfMeter {
     const now = active.join(",");
     if (now !== key) {
       key = now;
-      eigenvalues = activeEigenvalues(problem, active);
+      const unpenalized = active.filter((q) => gamma[q] === 0);
+      free = unpenalized.length;
+      eigenvalues = penalizedEigenvalues(
+        problem,
+        gamma,
+        active.filter((q) => gamma[q] > 0),
+        unpenalized,
+      );
     }
     const beta = alpha * (1 - mix);
-    let df = 0;
-    for (const mu of eigenvalues) df += mu / (mu + beta);
+    let df = free;
+    for (const nu of eigenvalues) df += nu / (nu + beta);
     return df;
   };
 }
@@ -108,12 +137,42 @@ export function solutionDf(solution: { readonly df: number | null }): number {
   return solution.df;
 }
 
-/** Eigenvalues of G_AA, rounded-negative ones set to 0. */
-function activeEigenvalues(problem: GramProblem, active: readonly number[]): Float64Array {
-  const k = active.length;
+/**
+ * Eigenvalues of Γ_P^{−1/2} S Γ_P^{−1/2}, S = G_PP − G_PU G_UU⁻¹ G_UP (G_PP itself without
+ * unpenalized columns), rounded-negative ones set to 0.
+ */
+function penalizedEigenvalues(
+  problem: GramProblem,
+  gamma: Float64Array,
+  penalized: readonly number[],
+  unpenalized: readonly number[],
+): Float64Array {
+  const { gram, p } = problem;
+  const k = penalized.length;
   const block = new Float64Array(k * k);
-  active.forEach((q, i) => {
-    active.forEach((r, j) => (block[i * k + j] = problem.gram[q * problem.p + r]));
+  penalized.forEach((q, i) => {
+    penalized.forEach((r, j) => (block[i * k + j] = gram[q * p + r]));
   });
-  return symmetricEigen(block, k).values.map((mu) => Math.max(mu, 0));
+  const free = blockSolver(problem, Int32Array.from(unpenalized));
+  if (free !== null) {
+    // S = G_PP − G_PU G_UU⁻¹ G_UP, one solve per penalized column r.
+    penalized.forEach((r, j) => {
+      const x = free.solve(unpenalized.map((u) => gram[u * p + r]));
+      penalized.forEach((q, i) => {
+        let t = 0;
+        unpenalized.forEach((u, m) => (t += gram[q * p + u] * x[m]));
+        block[i * k + j] -= t;
+      });
+    });
+    // symmetrize the rounding of the two triangles
+    for (let i = 0; i < k; i++) {
+      for (let j = 0; j < i; j++) {
+        block[i * k + j] = block[j * k + i] = (block[i * k + j] + block[j * k + i]) / 2;
+      }
+    }
+  }
+  penalized.forEach((q, i) => {
+    penalized.forEach((r, j) => (block[i * k + j] /= Math.sqrt(gamma[q] * gamma[r])));
+  });
+  return symmetricEigen(block, k).values.map((nu) => Math.max(nu, 0));
 }

@@ -1,8 +1,13 @@
 /**
- * The α path. α_max, the smallest α at which every coefficient is zero, follows from the
- * optimality conditions at w* = 0 (the gradient of the smooth part is −c there):
- *   α_max = max_q |c_q| / ρ = max_q |⟨z*_q, y − ȳ⟩| / (N ρ)
- * (z*_q the standardized, centered column; without an intercept, uncentered z*_q and y).
+ * The α path. α_max, the smallest α at which every penalized coefficient is zero, follows from
+ * the optimality conditions there. Let w⁰ be that solution: w⁰_q = 0 for every column with
+ * γ_q > 0, and the unpenalized columns (γ_q = 0, if any) at their least-squares values
+ * (unpenalized.ts), so g = c − G w⁰ is the gradient residual (g = c without unpenalized
+ * columns). Column q stays at zero while |g_q| ≤ αργ_q, so
+ *   α_max = max over γ_q > 0 of |g_q| / (ρ γ_q),
+ * which with every γ_q = 1 and no unpenalized column is max_q |c_q| / ρ =
+ * max_q |⟨z*_q, y − ȳ⟩| / (N ρ) (z*_q the standardized, centered column; without an intercept,
+ * uncentered z*_q and y). At least one γ_q is > 0 (penalty.ts refuses all-zero weights).
  * The automatic path runs from α_max down to ε·α_max, log-spaced, with ε = 10⁻³ when N > p and
  * 10⁻² otherwise (common practice for coordinate-descent paths).
  *
@@ -10,7 +15,8 @@
  */
 import { CurbfitError } from "../errors/error.ts";
 import type { GramProblem } from "./gram.ts";
-import { penaltyMix, type SparsePenalty } from "./penalty.ts";
+import { columnWeights, penaltyMix, type SparsePenalty } from "./penalty.ts";
+import { nullSolution, unpenalizedColumns } from "./unpenalized.ts";
 
 /** Explicit α values (each > 0), or the length and depth of an automatic path. */
 export type AlphaGrid =
@@ -26,7 +32,10 @@ export type AlphaGrid =
 export const DEFAULT_PATH_SIZE = 100;
 
 /**
- * α_max = max_q |c_q| / ρ: at and above it every coefficient is zero.
+ * α_max = max over γ_q > 0 of |g_q| / (ργ_q), g the gradient residuals with every penalized
+ * coefficient 0 and the unpenalized ones fitted (max_q |c_q| / ρ for equal weights): at and
+ * above it every penalized coefficient is zero. `gamma`: the per-column weights, resolved as
+ * `columnWeights` (penalty.ts) resolves them (default: the penalty's own).
  *
  * @example
  * ```ts
@@ -37,18 +46,27 @@ export const DEFAULT_PATH_SIZE = 100;
  * const [m] = bucketMoments(Float64Array.of(0, 1, 2, 3), 1, Float64Array.of(0, 1, 2, 3), new Int32Array(4), 1);
  * const g = gramProblem(m);
  * console.log(alphaMax(g, lasso()), alphaMax(g, elasticNet({ mix: 0.5 }))); // 1.118… 2.236…
+ * console.log(alphaMax(g, lasso({ weights: [2] }))); // 0.559…
  * ```
  */
-export function alphaMax(problem: GramProblem, penalty: SparsePenalty): number {
+export function alphaMax(
+  problem: GramProblem,
+  penalty: SparsePenalty,
+  gamma?: ArrayLike<number>,
+): number {
+  const weights = columnWeights(penalty, problem.p, gamma);
+  const { g } = nullSolution(problem, unpenalizedColumns(weights));
   let top = 0;
-  for (const c of problem.covariance) top = Math.max(top, Math.abs(c));
+  weights.forEach((gq, q) => {
+    if (gq > 0) top = Math.max(top, Math.abs(g[q]) / gq);
+  });
   return top / penaltyMix(penalty);
 }
 
 /**
  * The α values to solve at, in decreasing order (the order a warm-started path runs):
  * explicit values deduplicated and sorted, or the automatic log-spaced path
- * α_max·ε^(i/(count−1)), i = 0 … count − 1.
+ * α_max·ε^(i/(count−1)), i = 0 … count − 1. `gamma` as for `alphaMax`.
  *
  * @example
  * ```ts
@@ -65,6 +83,7 @@ export function alphaGrid(
   problem: GramProblem,
   penalty: SparsePenalty,
   spec?: AlphaGrid,
+  gamma?: ArrayLike<number>,
 ): number[] {
   if (Array.isArray(spec)) return explicitAlphas(spec as readonly number[]);
   const auto = (spec ?? {}) as { count?: number; ratio?: number };
@@ -86,12 +105,16 @@ export function alphaGrid(
       { option: "alphas.ratio" },
     );
   }
-  const top = alphaMax(problem, penalty);
+  const top = alphaMax(problem, penalty, gamma);
   if (!(top > 0)) {
+    const free = columnWeights(penalty, problem.p, gamma).includes(0);
     throw new CurbfitError(
       "BAD_OPTION",
-      "no design column is correlated with the target, so every α gives all-zero coefficients " +
-        "and there is no automatic α path",
+      (free
+        ? "no penalized design column is correlated with the target once the unpenalized " +
+          "columns are fitted, so every α gives the same coefficients"
+        : "no design column is correlated with the target, so every α gives all-zero " +
+          "coefficients") + " and there is no automatic α path",
       "Give explicit alphas, or check the target and terms",
       { option: "alphas" },
     );

@@ -28,6 +28,7 @@ import type { Steps } from "../common/steps.ts";
 import {
   type AlphaGrid,
   alphaGrid,
+  columnWeights,
   gramProblem,
   solutionDf,
   type SparsePath,
@@ -105,6 +106,12 @@ export function* crossValidate(
 /** How a sparse sweep reads its summaries and solves. */
 export interface SparseOptions {
   readonly penalty: SparsePenalty;
+  /**
+   * γ_q per design column, the penalty's weights resolved from the columns' orders
+   * (`penaltyWeights(penalty, orders)`, lib/fit/penalty.ts; the same for every fold). Default:
+   * the penalty's own — all 1 without weights; `"rising"` / `"falling"` weights need it.
+   */
+  readonly gamma?: ArrayLike<number>;
   readonly standardize: boolean;
   readonly intercept: boolean;
   /** Largest scaled KKT violation accepted (default 10⁻⁷; lib/sparse/descent.ts). */
@@ -125,7 +132,8 @@ export interface SparseCrossValidation {
 
 /**
  * Runs every fold through the lasso / elastic-net path over the α grid of the all-rows problem
- * (its α_max, so every fold is scored at the same α values), yielding after each fold.
+ * (its α_max, so every fold is scored at the same α values), yielding after each fold. Every
+ * path uses the same γ_q (`options.gamma`).
  *
  * @example
  * ```ts
@@ -154,13 +162,14 @@ export function* crossValidateSparse(
   const { penalty, tolerance } = options;
   const read = { standardize: options.standardize, intercept: options.intercept, names };
   const problem = gramProblem(source.all, { ...read, where: "rows" });
-  const descending = alphaGrid(problem, penalty, grid);
-  const full = sparsePath(problem, penalty, { alphas: descending, tolerance });
+  const gamma = columnWeights(penalty, problem.p, options.gamma);
+  const descending = alphaGrid(problem, penalty, grid, gamma);
+  const full = sparsePath(problem, penalty, { alphas: descending, gamma, tolerance });
   const foldMse: Float64Array[] = [];
   const foldTrainMse: Float64Array[] = [];
   yield* eachFold(source, report, ({ train, validation, where }) => {
     const fold = gramProblem(train, { ...read, where });
-    const path = sparsePath(fold, penalty, { alphas: descending, tolerance, validation });
+    const path = sparsePath(fold, penalty, { alphas: descending, gamma, tolerance, validation });
     foldMse.push(Float64Array.from(path.solutions, (s) => s.heldOutMse as number).reverse());
     foldTrainMse.push(Float64Array.from(path.solutions, (s) => s.trainMse).reverse());
   });
@@ -175,10 +184,10 @@ export function* crossValidateSparse(
 
 /**
  * The sparse curve: per α (ascending) the fold errors, mean and SE, and from the all-rows path
- * the training MSE, effective df (Σ_j μ_j/(μ_j + α(1 − ρ)) over the active Gram block's
- * eigenvalues, lib/sparse/df.ts: the nonzero count for the lasso), the nonzero count,
- * ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² (as budget) and the standardized coefficients. GCV and closed-form
- * LOO are null: they are ridge identities.
+ * the training MSE, effective df (tr[(G_AA + α(1 − ρ)Γ_A)⁻¹ G_AA] over the active Gram block,
+ * lib/sparse/df.ts: the nonzero count for the lasso), the nonzero count,
+ * Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] (as budget) and the standardized coefficients. GCV and
+ * closed-form LOO are null: they are ridge identities.
  *
  * @example
  * ```ts
@@ -200,7 +209,7 @@ export function sparseCurvePoints(cv: SparseCrossValidation, k: number): CurvePo
       foldTrainMse: mean(cv.foldTrainMse.map((e) => e[l])),
       df: solutionDf(sol),
       nonzero: sol.nonzero,
-      budget: penaltyValue(cv.penalty.mix, sol.standardized),
+      budget: penaltyValue(cv.penalty.mix, sol.standardized, cv.full.gamma),
       gcv: null,
       loo: null,
       path: [...sol.standardized],

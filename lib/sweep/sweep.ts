@@ -130,7 +130,7 @@ export interface CurvePoint {
   readonly df: number;
   /** Number of nonzero coefficients of the all-rows fit (every one, for ridge). */
   readonly nonzero: number;
-  /** Ridge: C(λ) = Σ γ_q w*_q². Sparse: ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² of the all-rows fit. */
+  /** Ridge: C(λ) = Σ γ_q w*_q². Sparse: Σ γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] of the all-rows fit. */
   readonly budget: number;
   /** Generalized cross-validation error; null for sparse penalties (not computed). */
   readonly gcv: number | null;

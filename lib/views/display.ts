@@ -349,7 +349,7 @@ export function fitBundle(model: Fit): Promise<ShownBundle> {
       ],
     },
     s.descent !== null
-      ? `${s.nonzero} of ${s.names.length} coefficients nonzero; ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² = ` +
+      ? `${s.nonzero} of ${s.names.length} coefficients nonzero; penalty Σ γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] = ` +
         `${num(s.budget)}; training MSE ${num(s.trainMse)}; coordinate descent ` +
         `${s.descent.converged ? "converged" : "DID NOT converge"} (KKT violation ` +
         `${num(s.descent.violation)} ≤ ${num(s.descent.tolerance)} asked; duality gap ` +

@@ -87,10 +87,10 @@ function headline(result: PathSource): string {
 function budgetWords(scale: StrengthScale) {
   return scale === "alpha"
     ? {
-      axis: "P(w*) = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖²",
+      axis: "P(w*) = Σ γ [ρ|w*| + ((1 − ρ)/2) w*²]",
       short: "P",
-      reading: "Bottom: the penalty's size P(w*) = ρ‖w*‖₁ + ((1 − ρ)/2)‖w*‖² of the same fits " +
-        "(‖w*‖₁ for the lasso).",
+      reading: "Bottom: the penalty's size P(w*) = Σ_q γ_q [ρ|w*_q| + ((1 − ρ)/2) w*_q²] of the " +
+        "same fits (Σ_q γ_q |w*_q| for the lasso; every γ_q = 1 unless weights were given).",
     }
     : {
       axis: "budget C(λ)",
