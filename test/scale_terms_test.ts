@@ -45,6 +45,7 @@ import { momentsFromSums } from "../lib/sql/sums.ts";
 import { sweepSql } from "../lib/sql/sweep.ts";
 import {
   ffiAllowed,
+  partitionOverShards,
   postgresInstalled,
   type PostgresServer,
   requireTool,
@@ -835,30 +836,17 @@ Deno.test("PostgreSQL sharded with postgres_fdw: power, level and product sums r
       await c.end();
     }
     const client = await coordinator.connect();
-    await client.query("CREATE EXTENSION postgres_fdw");
-    await client.query(
-      "CREATE TABLE plots (id BIGINT, shard INTEGER, x DOUBLE PRECISION, z DOUBLE PRECISION, " +
-        "w DOUBLE PRECISION, site TEXT, y DOUBLE PRECISION) PARTITION BY LIST (shard)",
+    // Whether to ship an aggregate is the planner's cost-based choice. With postgres_fdw's
+    // default fdw_tuple_cost (0.01 per row) it kept this query's ~280 sums on the coordinator
+    // (correct, but every row crosses the wire); at 0.2 (PostgreSQL 17's new default, recalled
+    // from memory) it ships them, as it already does for the smaller Legendre query.
+    await partitionOverShards(
+      client,
+      "plots",
+      "id BIGINT, shard INTEGER, x DOUBLE PRECISION, z DOUBLE PRECISION, w DOUBLE PRECISION, site TEXT, y DOUBLE PRECISION",
+      shards,
+      { fdw_tuple_cost: "0.2" },
     );
-    for (const [i, shard] of shards.entries()) {
-      await client.query(
-        `CREATE SERVER shard_${i + 1} FOREIGN DATA WRAPPER postgres_fdw ` +
-          `OPTIONS (host '127.0.0.1', port '${shard.port}', dbname 'postgres')`,
-      );
-      await client.query(
-        `CREATE USER MAPPING FOR curbfit SERVER shard_${i + 1} OPTIONS (user 'curbfit')`,
-      );
-      // Whether to ship an aggregate is the planner's cost-based choice. With postgres_fdw's
-      // default fdw_tuple_cost (0.01 per row) it kept this query's ~280 sums on the coordinator
-      // (correct, but every row crosses the wire); at 0.2 (PostgreSQL 17's new default, recalled
-      // from memory) it ships them, as it already does for the smaller Legendre query.
-      await client.query(`ALTER SERVER shard_${i + 1} OPTIONS (ADD fdw_tuple_cost '0.2')`);
-      await client.query(
-        `CREATE FOREIGN TABLE plots_${i + 1} PARTITION OF plots FOR VALUES IN (${i + 1}) ` +
-          `SERVER shard_${i + 1} OPTIONS (table_name 'plots_${i + 1}')`,
-      );
-    }
-    await client.query("SET enable_partitionwise_aggregate = on");
     await client.query("SET jit = off");
     const terms = TERM_SETS["products of power, column and indicators"];
     const got = await sweepSql(postgresConnection(client), {

@@ -17,6 +17,7 @@ import { chebyshevValues, legendreFromChebyshev } from "../lib/sql/chebyshev.ts"
 import { foldHash, foldOfKey, foldsOfKeys } from "../lib/stream/hash.ts";
 import {
   ffiAllowed,
+  partitionOverShards,
   postgresInstalled,
   type PostgresServer,
   requireTool,
@@ -437,25 +438,12 @@ Deno.test("PostgreSQL sharded with postgres_fdw: partition-wise aggregation runs
       await c.end();
     }
     const client = await coordinator.connect();
-    await client.query("CREATE EXTENSION postgres_fdw");
-    await client.query(
-      "CREATE TABLE readings (id BIGINT, shard INTEGER, x DOUBLE PRECISION, " +
-        "z1 DOUBLE PRECISION, z2 DOUBLE PRECISION, y DOUBLE PRECISION) PARTITION BY LIST (shard)",
+    await partitionOverShards(
+      client,
+      "readings",
+      "id BIGINT, shard INTEGER, x DOUBLE PRECISION, z1 DOUBLE PRECISION, z2 DOUBLE PRECISION, y DOUBLE PRECISION",
+      shards,
     );
-    for (const [i, shard] of shards.entries()) {
-      await client.query(
-        `CREATE SERVER shard_${i + 1} FOREIGN DATA WRAPPER postgres_fdw ` +
-          `OPTIONS (host '127.0.0.1', port '${shard.port}', dbname 'postgres')`,
-      );
-      await client.query(
-        `CREATE USER MAPPING FOR curbfit SERVER shard_${i + 1} OPTIONS (user 'curbfit')`,
-      );
-      await client.query(
-        `CREATE FOREIGN TABLE readings_${i + 1} PARTITION OF readings FOR VALUES IN (${i + 1}) ` +
-          `SERVER shard_${i + 1} OPTIONS (table_name 'readings_${i + 1}')`,
-      );
-    }
-    await client.query("SET enable_partitionwise_aggregate = on");
     const spec = {
       table: "readings",
       target: "y",

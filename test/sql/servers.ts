@@ -95,3 +95,35 @@ export async function startPostgres(): Promise<PostgresServer> {
     },
   };
 }
+
+/**
+ * Makes `table` on the coordinator a table partitioned `BY LIST (shard)` whose partition i + 1 is
+ * the foreign table `${table}_${i + 1}` on shard i (postgres_fdw; each shard already holds that
+ * table), and turns on partition-wise aggregation. `columns` is the column list in SQL;
+ * `serverOptions` are extra postgres_fdw server options (e.g. fdw_tuple_cost).
+ */
+export async function partitionOverShards(
+  client: pg.Client,
+  table: string,
+  columns: string,
+  shards: readonly PostgresServer[],
+  serverOptions: Readonly<Record<string, string>> = {},
+): Promise<void> {
+  await client.query("CREATE EXTENSION postgres_fdw");
+  await client.query(`CREATE TABLE ${table} (${columns}) PARTITION BY LIST (shard)`);
+  const extra = Object.entries(serverOptions).map(([k, v]) => `, ${k} '${v}'`).join("");
+  for (const [i, shard] of shards.entries()) {
+    await client.query(
+      `CREATE SERVER shard_${i + 1} FOREIGN DATA WRAPPER postgres_fdw ` +
+        `OPTIONS (host '127.0.0.1', port '${shard.port}', dbname 'postgres'${extra})`,
+    );
+    await client.query(
+      `CREATE USER MAPPING FOR curbfit SERVER shard_${i + 1} OPTIONS (user 'curbfit')`,
+    );
+    await client.query(
+      `CREATE FOREIGN TABLE ${table}_${i + 1} PARTITION OF ${table} FOR VALUES IN (${i + 1}) ` +
+        `SERVER shard_${i + 1} OPTIONS (table_name '${table}_${i + 1}')`,
+    );
+  }
+  await client.query("SET enable_partitionwise_aggregate = on");
+}
