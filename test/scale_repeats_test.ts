@@ -55,6 +55,7 @@ import {
   type PostgresServer,
   requireTool,
   startPostgres,
+  withDuckDB,
 } from "./sql/servers.ts";
 import { assertSameSweep, keyedRows } from "./sql/scale_helpers.ts";
 
@@ -378,20 +379,6 @@ Deno.test("SQL query text, R = 3: one fold column per repeat, all grouped in one
     }
   }
 });
-
-async function withDuckDB(
-  body: (con: import("@duckdb/node-api").DuckDBConnection) => Promise<void>,
-): Promise<void> {
-  const { DuckDBInstance } = await import("@duckdb/node-api");
-  const db = await DuckDBInstance.create(":memory:");
-  const con = await db.connect();
-  try {
-    await body(con);
-  } finally {
-    con.closeSync();
-    db.closeSync();
-  }
-}
 
 /** Creates `table` in DuckDB with the keyed rows (x replaced when given). */
 async function duckTable(

@@ -50,6 +50,7 @@ import {
   type PostgresServer,
   requireTool,
   startPostgres,
+  withDuckDB,
 } from "./sql/servers.ts";
 import { assertSameSweep } from "./sql/scale_helpers.ts";
 import { normals } from "./helpers.ts";
@@ -479,20 +480,6 @@ const SUMS_TERMS = [
   product(power("x", 2), indicators("site")),
   product(legendre("x", 4), column("z")),
 ];
-
-async function withDuckDB(
-  body: (con: import("@duckdb/node-api").DuckDBConnection) => Promise<void>,
-): Promise<void> {
-  const { DuckDBInstance } = await import("@duckdb/node-api");
-  const db = await DuckDBInstance.create(":memory:");
-  const con = await db.connect();
-  try {
-    await body(con);
-  } finally {
-    con.closeSync();
-    db.closeSync();
-  }
-}
 
 /** Column names of a test table (plain or hostile). */
 interface Names {

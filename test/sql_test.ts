@@ -22,6 +22,7 @@ import {
   type PostgresServer,
   requireTool,
   startPostgres,
+  withDuckDB,
 } from "./sql/servers.ts";
 import { assertSameSweep, keyedRows, memorySweep } from "./sql/scale_helpers.ts";
 
@@ -134,20 +135,6 @@ function checkEngineFolds(folds: Map<string, number>): void {
   const hash = foldHash(SEED, 7);
   for (const key of EDGE_KEYS) {
     assert.equal(folds.get(key), foldOfKey(hash, key), `key ${key}`);
-  }
-}
-
-async function withDuckDB(
-  body: (con: import("@duckdb/node-api").DuckDBConnection) => Promise<void>,
-): Promise<void> {
-  const { DuckDBInstance } = await import("@duckdb/node-api");
-  const db = await DuckDBInstance.create(":memory:");
-  const con = await db.connect();
-  try {
-    await body(con);
-  } finally {
-    con.closeSync();
-    db.closeSync();
   }
 }
 

@@ -127,3 +127,18 @@ export async function partitionOverShards(
   }
   await client.query("SET enable_partitionwise_aggregate = on");
 }
+
+/** Runs `body` with a connection to a fresh in-memory DuckDB database, closed afterwards. */
+export async function withDuckDB(
+  body: (con: import("@duckdb/node-api").DuckDBConnection) => Promise<void>,
+): Promise<void> {
+  const { DuckDBInstance } = await import("@duckdb/node-api");
+  const db = await DuckDBInstance.create(":memory:");
+  const con = await db.connect();
+  try {
+    await body(con);
+  } finally {
+    con.closeSync();
+    db.closeSync();
+  }
+}
