@@ -38,7 +38,7 @@ import {
 } from "../sweep/engine.ts";
 import type { LambdaGrid } from "../sweep/grid.ts";
 import { runStepsAsync } from "../common/steps.ts";
-import { type Choice, choose, type SelectionRule } from "../sweep/select.ts";
+import { type Choice, chooseOnCurve, type SelectionRule } from "../sweep/select.ts";
 import { type CurvePoint, type CurveResult, edgeNotes, type Progress } from "../sweep/sweep.ts";
 import { checkHashRepeats, FOLD_HASH, type FoldHash, foldHashes } from "./hash.ts";
 import { checkFoldsFilled, type FoldRanges, learnOnRanges } from "./ranges.ts";
@@ -424,11 +424,7 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
     finalModel = (c) => fitFromMoments(all, terms, { ...spec, lambda: c.strength });
   }
   const scale = strengthScale(penalty);
-  const grid = curve.map((c) => c.strength);
-  const means = curve.map((c) => c.cvMean);
-  const ses = curve.map((c) => c.cvSe);
-  const minimum = choose("min", grid, means, ses);
-  const chosen = choose(spec.rule ?? "min", grid, means, ses);
+  const { minimum, chosen } = chooseOnCurve(curve, spec.rule);
   report({ stage: "refit", done: 0, total: 1 });
   const fit = finalModel(chosen);
   report({ stage: "refit", done: 1, total: 1 });
@@ -452,7 +448,7 @@ export async function finishSweep(input: FinishInput): Promise<ScaleSweepResult>
     curve,
     minimum,
     chosen,
-    notes: edgeNotes(minimum, grid.length, scale, scale === "alpha" ? spec.alphas : spec.lambdas),
+    notes: edgeNotes(minimum, curve.length, scale, scale === "alpha" ? spec.alphas : spec.lambdas),
     fit,
     source: input.source,
     passes,

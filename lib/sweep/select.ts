@@ -61,3 +61,25 @@ export function choose(
   }
   return { rule, index, strength: lambdas[index] };
 }
+
+/**
+ * The minimum and the rule's choice on a curve of points (ascending strength) with mean CV errors
+ * and their standard errors: what every sweep reports.
+ *
+ * @example
+ * ```ts
+ * import { chooseOnCurve } from "./select.ts";
+ * const curve = [0.1, 1, 10].map((strength, i) => ({ strength, cvMean: [1, 0.9, 0.95][i], cvSe: 0.1 }));
+ * const { minimum, chosen } = chooseOnCurve(curve, "one-se");
+ * console.log(minimum.strength, chosen.strength); // 1 10
+ * ```
+ */
+export function chooseOnCurve(
+  curve: readonly { readonly strength: number; readonly cvMean: number; readonly cvSe: number }[],
+  rule: SelectionRule = "min",
+): { minimum: Choice; chosen: Choice } {
+  const grid = curve.map((c) => c.strength);
+  const means = curve.map((c) => c.cvMean);
+  const ses = curve.map((c) => c.cvSe);
+  return { minimum: choose("min", grid, means, ses), chosen: choose(rule, grid, means, ses) };
+}

@@ -44,7 +44,7 @@ import {
 import { bucketMoments, mergeMoments, type Moments, removeMoments } from "./moments.ts";
 import { basisChange, changeMoments } from "./basis.ts";
 import type { LambdaGrid } from "./grid.ts";
-import { type Choice, choose, type SelectionRule } from "./select.ts";
+import { type Choice, chooseOnCurve, type SelectionRule } from "./select.ts";
 import { type FoldRequest, planFolds } from "./folds.ts";
 import { leaveOneOutErrors } from "./loo.ts";
 import {
@@ -295,11 +295,7 @@ export function* sweepPrepared(
       });
   }
   const scale = strengthScale(penalty);
-  const grid = curve.map((c) => c.strength);
-  const means = curve.map((c) => c.cvMean);
-  const ses = curve.map((c) => c.cvSe);
-  const minimum = choose("min", grid, means, ses);
-  const chosen = choose(spec.rule ?? "min", grid, means, ses);
+  const { minimum, chosen } = chooseOnCurve(curve, spec.rule);
   report({ stage: "refit", done: 0, total: 1 });
   const model = finalModel(chosen);
   report({ stage: "refit", done: 1, total: 1 });
@@ -316,7 +312,7 @@ export function* sweepPrepared(
     curve,
     minimum,
     chosen,
-    notes: edgeNotes(minimum, grid.length, scale, scale === "alpha" ? spec.alphas : spec.lambdas),
+    notes: edgeNotes(minimum, curve.length, scale, scale === "alpha" ? spec.alphas : spec.lambdas),
     fit: model,
     provenance: sweepProvenance(data, spec.lambdas, spec.alphas),
   }, sweepBundle));
