@@ -7,6 +7,7 @@
 import { CurbfitError } from "../errors/error.ts";
 import type { SparsePenalty } from "../sparse/mod.ts";
 import { isSparse } from "../fit/penalty.ts";
+import type { FitSummary } from "../fit/fit.ts";
 import { deepFreeze } from "../common/freeze.ts";
 import type { Json } from "../design/types.ts";
 import { assignmentDigest, type FoldPlan } from "../folds/mod.ts";
@@ -302,18 +303,7 @@ function sparseModelSection(
       alpha: f.strength,
       penaltyValue: f.budget,
       nonzero: f.nonzero,
-      names: [...f.names],
-      intercept: f.intercept,
-      coefficients: [...f.coefficients],
-      standardized: {
-        intercept: f.standardized.intercept,
-        coefficients: [...f.standardized.coefficients],
-      },
-      means: [...f.means],
-      sds: [...f.sds],
-      trainMse: f.trainMse,
-      residualSd: f.residualSd,
-      condition: f.condition,
+      ...fittedNumbers(f),
       descent: {
         passes: descent.passes,
         converged: descent.converged,
@@ -361,6 +351,17 @@ function finalSection(s: SweepResult): FinalSection {
     lambda: f.strength,
     budget: f.budget,
     df: f.df,
+    ...fittedNumbers(f),
+    refinementSteps: f.refinementSteps,
+  };
+}
+
+/**
+ * The fitted numbers every final section holds, in record key order (the caller puts the strength
+ * and size keys before them and the solver's report after).
+ */
+function fittedNumbers(f: FitSummary) {
+  return {
     names: [...f.names],
     intercept: f.intercept,
     coefficients: [...f.coefficients],
@@ -373,7 +374,6 @@ function finalSection(s: SweepResult): FinalSection {
     trainMse: f.trainMse,
     residualSd: f.residualSd,
     condition: f.condition,
-    refinementSteps: f.refinementSteps,
   };
 }
 

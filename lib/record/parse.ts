@@ -379,19 +379,7 @@ function sparseCv(v: unknown, path: string): SparseModelSection["cv"] {
 }
 
 function sparseChoice(v: unknown, path: string): SparseModelSection["choice"] {
-  const o = fields(v, path, ["rule", "definition", "index", "alpha", "minimum", "notes"]);
-  const m = fields(o.minimum, `${path}.minimum`, ["index", "alpha"]);
-  return {
-    rule: oneOf(o.rule, `${path}.rule`, ["min", "one-se"] as const),
-    definition: text(o.definition, `${path}.definition`),
-    index: whole(o.index, `${path}.index`),
-    alpha: num(o.alpha, `${path}.alpha`),
-    minimum: {
-      index: whole(m.index, `${path}.minimum.index`),
-      alpha: num(m.alpha, `${path}.minimum.alpha`),
-    },
-    notes: list(o.notes, `${path}.notes`, text),
-  };
+  return choiceOn(v, path, "alpha") as unknown as SparseModelSection["choice"];
 }
 
 function sparseFinal(v: unknown, path: string): SparseModelSection["final"] {
@@ -499,16 +487,21 @@ function cv(v: unknown, path: string): CvSection {
 }
 
 function choice(v: unknown, path: string): ChoiceSection {
-  const o = fields(v, path, ["rule", "definition", "index", "lambda", "minimum", "notes"]);
-  const m = fields(o.minimum, `${path}.minimum`, ["index", "lambda"]);
+  return choiceOn(v, path, "lambda") as unknown as ChoiceSection;
+}
+
+/** A choice section whose strength keys are `key` ("lambda" for ridge, "alpha" for sparse). */
+function choiceOn(v: unknown, path: string, key: "lambda" | "alpha"): Record<string, unknown> {
+  const o = fields(v, path, ["rule", "definition", "index", key, "minimum", "notes"]);
+  const m = fields(o.minimum, `${path}.minimum`, ["index", key]);
   return {
     rule: oneOf(o.rule, `${path}.rule`, ["min", "one-se"] as const),
     definition: text(o.definition, `${path}.definition`),
     index: whole(o.index, `${path}.index`),
-    lambda: num(o.lambda, `${path}.lambda`),
+    [key]: num(o[key], `${path}.${key}`),
     minimum: {
       index: whole(m.index, `${path}.minimum.index`),
-      lambda: num(m.lambda, `${path}.minimum.lambda`),
+      [key]: num(m[key], `${path}.minimum.${key}`),
     },
     notes: list(o.notes, `${path}.notes`, text),
   };
